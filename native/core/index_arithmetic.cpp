@@ -1,0 +1,100 @@
+#include "index_arithmetic.hpp"
+
+#include <cmath>
+
+#include <fmt/format.h>
+
+namespace lintel {
+
+namespace {
+std::string dateText(double serial) {
+    const CivilDate d = civilFromSerial(serial);
+    return fmt::format("{:04d}-{:02d}-{:02d}", d.year, d.month, d.day);
+}
+}  // namespace
+
+IndexSeries IndexSeries::fromColumns(std::vector<double> start, std::vector<double> value) {
+    if (start.size() != value.size())
+        throw InputError(fmt::format("periods has {} rows, index has {}", start.size(),
+                                     value.size()));
+    if (start.empty()) throw InputError("periods holds no dates");
+    const auto f = inferFrequency(start.data(), start.size());
+    if (!f)
+        throw InputError(
+            "periods must be period start dates (first of a month, quarter or year) in "
+            "increasing order, as the index functions write them");
+    IndexSeries s;
+    s.start = std::move(start);
+    s.value = std::move(value);
+    s.freq = *f;
+    return s;
+}
+
+int IndexSeries::rowOf(double serial) const {
+    if (!isUsableSerial(serial)) return -1;
+    const long k = periodKey(serial, freq);
+    // Rows are increasing period starts; binary search on keys.
+    std::size_t lo = 0, hi = start.size();
+    while (lo < hi) {
+        const std::size_t mid = (lo + hi) / 2;
+        const long km = periodKey(start[mid], freq);
+        if (km == k) return static_cast<int>(mid);
+        if (km < k) lo = mid + 1; else hi = mid;
+    }
+    return -1;
+}
+
+std::vector<double> rebaseIndex(const IndexSeries& s, double baseDate) {
+    const int b = s.rowOf(baseDate);
+    if (b < 0)
+        throw InputError(fmt::format("base {} lies outside the periods ({} .. {})",
+                                     dateText(baseDate), dateText(s.start.front()),
+                                     dateText(s.start.back())));
+    if (!hasValue(s.value[b]) || s.value[b] <= 0)
+        throw InputError(fmt::format("the base period {} has no index value",
+                                     dateText(s.start[b])));
+    std::vector<double> out(s.value.size(), kNoValue);
+    for (std::size_t i = 0; i < out.size(); ++i)
+        if (hasValue(s.value[i])) out[i] = 100.0 * s.value[i] / s.value[b];
+    return out;
+}
+
+std::vector<double> indexChange(const std::vector<double>& index, int lag, ChangeKind kind,
+                                Frequency freq) {
+    if (lag < 1) throw InputError(fmt::format("lag must be 1 or more, got {}", lag));
+    std::vector<double> out(index.size(), kNoValue);
+    for (std::size_t t = static_cast<std::size_t>(lag); t < index.size(); ++t) {
+        const double a = index[t - lag], b = index[t];
+        if (!hasValue(a) || !hasValue(b) || a <= 0 || b <= 0) continue;
+        const double ratio = b / a;
+        switch (kind) {
+            case ChangeKind::Percent: out[t] = 100.0 * (ratio - 1.0); break;
+            case ChangeKind::Log: out[t] = 100.0 * std::log(ratio); break;
+            case ChangeKind::Annual:
+                out[t] = 100.0 * (std::pow(ratio, double(periodsPerYear(freq)) / lag) - 1.0);
+                break;
+        }
+    }
+    return out;
+}
+
+double adjustPrice(const IndexSeries& s, double price, double saleDate, double targetDate) {
+    if (!std::isfinite(price)) throw InputError("price is not a number");
+    const auto lookup = [&](double date, const char* what) {
+        if (!isUsableSerial(date)) throw InputError(fmt::format("{} is not a date", what));
+        const int r = s.rowOf(date);
+        if (r < 0)
+            throw InputError(fmt::format("{} {} lies outside the index ({} .. {})", what,
+                                         dateText(date), dateText(s.start.front()),
+                                         dateText(s.start.back())));
+        if (!hasValue(s.value[r]) || s.value[r] <= 0)
+            throw InputError(fmt::format("{} {} falls on period {} without an index value",
+                                         what, dateText(date), dateText(s.start[r])));
+        return s.value[r];
+    };
+    const double iSale = lookup(saleDate, "saledate");
+    const double iTarget = lookup(targetDate, "targetdate");
+    return price * iTarget / iSale;
+}
+
+}  // namespace lintel

@@ -1,0 +1,58 @@
+#include "index_table.hpp"
+
+#include <fmt/format.h>
+
+namespace lintel {
+
+namespace {
+std::string dateText(double serial) {
+    const CivilDate d = civilFromSerial(serial);
+    return fmt::format("{:04d}-{:02d}-{:02d}", d.year, d.month, d.day);
+}
+}  // namespace
+
+void validateCommon(const IndexOptions& o) {
+    if (!(o.level > 0.0 && o.level < 1.0))
+        throw InputError(fmt::format("level must lie between 0 and 1, got {}", o.level));
+    if (o.minSales < 1) throw InputError("minsales must be at least 1");
+}
+
+int resolveBase(const PeriodAxis& axis, const std::vector<double>& level,
+                const IndexOptions& o) {
+    if (o.baseDate) {
+        const int b = axis.positionOf(*o.baseDate);
+        if (b < 0)
+            throw InputError(fmt::format("base {} lies outside the data ({})",
+                                         dateText(*o.baseDate), axis.rangeText()));
+        if (!hasValue(level[b]))
+            throw InputError(fmt::format(
+                "the base period {} has no value (too few sales; minsales {})", axis.label(b),
+                o.minSales));
+        return b;
+    }
+    for (int i = 0; i < axis.count; ++i)
+        if (hasValue(level[i])) return i;
+    throw InputError(fmt::format("no period has a value (minsales {})", o.minSales));
+}
+
+void scaleToBase(IndexTable& t, const std::vector<double>& level,
+                 const std::vector<double>& lo, const std::vector<double>& hi,
+                 const IndexOptions& o) {
+    const int b = resolveBase(t.axis, level, o);
+    t.basePosition = b;
+    const double scale = 100.0 / level[b];
+    const std::size_t n = static_cast<std::size_t>(t.axis.count);
+    t.index.assign(n, kNoValue);
+    t.lower.assign(n, kNoValue);
+    t.upper.assign(n, kNoValue);
+    for (std::size_t i = 0; i < n; ++i) {
+        if (!hasValue(level[i])) continue;
+        t.index[i] = level[i] * scale;
+        if (hasValue(lo[i]) && hasValue(hi[i])) {
+            t.lower[i] = lo[i] * scale;
+            t.upper[i] = hi[i] * scale;
+        }
+    }
+}
+
+}  // namespace lintel

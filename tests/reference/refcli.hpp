@@ -1,0 +1,42 @@
+// lintel_refcli: runs core estimators on CSV files so the Python reference checks can compare
+// them with pandas, statsmodels and R on the same data. Test tooling only.
+//
+//   lintel_refcli <command> <input.csv> [key=value ...]
+//
+// Input: a CSV file with a header row; numbers in C locale; an empty field is NaN.
+// Output: CSV on stdout (header row, then numbers printed with 17 significant digits).
+// Each estimator area registers its commands in its own refcli_<area>.cpp.
+#pragma once
+
+#include <functional>
+#include <map>
+#include <string>
+#include <vector>
+
+namespace refcli {
+
+struct Table {
+    std::vector<std::string> names;
+    std::vector<std::vector<std::string>> cells;  // rows of raw text
+
+    std::size_t rows() const { return cells.size(); }
+    int find(const std::string& name) const;          // -1 if absent
+    std::vector<double> numbers(const std::string& name) const;  // NaN for empty/non-numeric
+    std::vector<std::string> text(const std::string& name) const;
+};
+
+using Args = std::map<std::string, std::string>;
+using Command = std::function<int(const Table&, const Args&)>;
+
+// Registers a command at static-initialisation time.
+struct Register {
+    Register(const std::string& name, Command cmd);
+};
+
+double number(const Args& a, const std::string& key, double fallback);
+std::string text(const Args& a, const std::string& key, const std::string& fallback);
+// Prints a CSV table: names then columns of equal length.
+void printColumns(const std::vector<std::string>& names,
+                  const std::vector<std::vector<double>>& columns);
+
+}  // namespace refcli
