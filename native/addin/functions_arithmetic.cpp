@@ -1,0 +1,170 @@
+// INDEXREBASE, INDEXCHANGE, PRICEADJUST: index arithmetic on index columns.
+#include <cmath>
+
+#include <fmt/format.h>
+
+#include "diagnostics.hpp"
+#include "function_table.hpp"
+#include "index_arithmetic.hpp"
+#include "inputs.hpp"
+
+namespace lintel::addin {
+
+namespace {
+
+// The period rows of a periods | index pair of columns, skipping rows whose period cell is
+// not a date (a titles row, blank rows below the table).
+struct SeriesRows {
+    IndexSeries series;
+    std::vector<int> rowOfInput;  // for each input row: position in series, or -1
+};
+
+SeriesRows readSeries(const Arg& periodsArg, const Arg& indexArg, const CallContext& ctx) {
+    const Range& periods = required(periodsArg, "periods");
+    const Range& index = required(indexArg, "index");
+    checkAligned({{"periods", &periods}, {"index", &index}});
+    std::vector<double> start, value;
+    SeriesRows out;
+    out.rowOfInput.assign(periods.rows, -1);
+    for (std::size_t i = 0; i < periods.rows; ++i) {
+        const Cell& p = periods.at(i, 0);
+        if (!p.isNumber()) continue;
+        out.rowOfInput[i] = static_cast<int>(start.size());
+        start.push_back(p.number + ctx.dateOffset);
+        const Cell& v = index.at(i, 0);
+        value.push_back(v.isNumber() ? v.number : kNoValue);
+    }
+    out.series = IndexSeries::fromColumns(std::move(start), std::move(value));
+    return out;
+}
+
+OutTable rebase(const std::vector<Arg>& a, const CallContext& ctx) {
+    const SeriesRows s = readSeries(a[0], a[1], ctx);
+    const auto base = dateArg(a[2], "base", ctx);
+    if (!base) throw InputError("base is required: a date in the new base period");
+    const std::vector<double> v = rebaseIndex(s.series, *base);
+    const Range& index = *a[1];
+    OutTable out;
+    for (std::size_t i = 0; i < s.rowOfInput.size(); ++i) {
+        out.addRow();
+        if (s.rowOfInput[i] >= 0) out.num(v[s.rowOfInput[i]]);
+        else if (index.at(i, 0).isText()) out.text(index.at(i, 0).text);  // keep a title
+        else out.none();
+    }
+    return out;
+}
+
+OutTable change(const std::vector<Arg>& a, const CallContext&) {
+    const Range& index = required(a[0], "index");
+    checkAligned({{"index", &index}});
+    const double lagValue = numberArg(a[1], "lag", 1);
+    if (lagValue != std::floor(lagValue) || lagValue < 1)
+        throw InputError(fmt::format("lag must be a whole number of at least 1, got {}", lagValue));
+    const std::string kindText = textArg(a[2], "kind", "pct");
+    ChangeKind kind;
+    if (kindText == "pct" || kindText == "PCT") kind = ChangeKind::Percent;
+    else if (kindText == "log" || kindText == "LOG") kind = ChangeKind::Log;
+    else if (kindText == "annual" || kindText == "ANNUAL") kind = ChangeKind::Annual;
+    else throw InputError(fmt::format("kind must be \"pct\", \"log\" or \"annual\", got \"{}\"", kindText));
+    const Frequency f = frequencyArg(a[3]);
+    const std::vector<double> v =
+        indexChange(numberColumn(index, 0), static_cast<int>(lagValue), kind, f);
+    OutTable out;
+    for (double x : v) {
+        out.addRow();
+        out.num(x);
+    }
+    return out;
+}
+
+// A scalar or a column; scalars broadcast over the rows of the others.
+struct Broadcast {
+    const Range* range;
+    const char* name;
+    const Cell& at(std::size_t i) const { return range->rows == 1 ? range->at(0, 0) : range->at(i, 0); }
+};
+
+OutTable adjust(const std::vector<Arg>& a, const CallContext& ctx) {
+    const Broadcast price{&required(a[0], "price"), "price"};
+    const Broadcast sale{&required(a[1], "saledate"), "saledate"};
+    const Broadcast target{&required(a[2], "targetdate"), "targetdate"};
+    const SeriesRows s = readSeries(a[3], a[4], ctx);
+    std::size_t n = 1;
+    const char* longest = nullptr;
+    for (const Broadcast* b : {&price, &sale, &target}) {
+        if (b->range->cols != 1)
+            throw InputError(fmt::format("{} must be one value or one column", b->name));
+        if (b->range->rows == 1) continue;
+        if (n != 1 && b->range->rows != n)
+            throw InputError(fmt::format("{} has {} rows, {} has {}", longest, n, b->name,
+                                         b->range->rows));
+        n = b->range->rows;
+        longest = b->name;
+    }
+    OutTable out;
+    out.scalar = price.range->scalar && sale.range->scalar && target.range->scalar;
+    for (std::size_t i = 0; i < n; ++i) {
+        out.addRow();
+        const Cell& p = price.at(i);
+        if (p.isEmpty() && sale.at(i).isEmpty()) { out.none(); continue; }
+        try {
+            if (!p.isNumber()) throw InputError("price is not a number");
+            out.num(adjustPrice(s.series, p.number, cellDate(sale.at(i), ctx),
+                                cellDate(target.at(i), ctx)));
+        } catch (const InputError& e) {
+            out.text(std::string("Lintel: ") + e.what());
+        }
+    }
+    return out;
+}
+
+}  // namespace
+
+std::vector<FunctionSpec> arithmeticFunctions() {
+    const ArgSpec periods{"periods", ArgKind::Range,
+                          "The period column of an index table (period start dates)."};
+    const ArgSpec index{"index", ArgKind::Range, "The index column aligned with periods."};
+    return {
+        {"indexRebase",
+         "INDEXREBASE",
+         "Rebases an index column so that the period containing the base date is 100.",
+         {periods, index,
+          {"base", ArgKind::Range, "A date in the new base period."}},
+         {},
+         "A column aligned with index: 100 * I(t) / I(base). Rows without a value stay blank; "
+         "a title row is kept.",
+         "=INDEXREBASE(E2:E61;F2:F61;DATE(2022;1;1))",
+         rebase},
+        {"indexChange",
+         "INDEXCHANGE",
+         "Change of an index over lag rows: percent (default), log points or annualised.",
+         {{"index", ArgKind::Range, "An index column."},
+          {"lag", ArgKind::Optional,
+           "Rows to look back (default 1; 12 on a monthly index, 4 on a quarterly one is "
+           "year-over-year)."},
+          {"kind", ArgKind::Optional,
+           "\"pct\" 100 (I(t)/I(t-lag) - 1) (default); \"log\" 100 ln(I(t)/I(t-lag)); "
+           "\"annual\" the percent change annualised using freq."},
+          spec::freq()},
+         {},
+         "A column aligned with index; the first lag rows and rows where either value is "
+         "missing stay blank.",
+         "=INDEXCHANGE(F2:F61;12)",
+         change},
+        {"priceAdjust",
+         "PRICEADJUST",
+         "Time-adjusts a sale price to another date with an index: price * I(target) / I(sale). "
+         "An index describes a market, not one home: no substitute for an appraisal.",
+         {{"price", ArgKind::Range, "A sale price, or a column of prices."},
+          {"saledate", ArgKind::Range, "The sale date, or a column of dates."},
+          {"targetdate", ArgKind::Range, "The date to adjust to, or a column of dates."},
+          periods, index},
+         {},
+         "One value, or a column when any input is a column. A date outside the index or on a "
+         "period without a value gives a message in that cell.",
+         "=PRICEADJUST(B2;A2;DATE(2024;6;30);E$2:E$61;F$2:F$61)",
+         adjust},
+    };
+}
+
+}  // namespace lintel::addin

@@ -1,0 +1,92 @@
+// Cells -> core inputs and core results -> cells, in one place. Every index function reads
+// its ranges through these helpers, so row checks, header rows, date handling, blanks and
+// the "no value" cell are the same everywhere.
+#pragma once
+
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "cell_model.hpp"
+#include "function_table.hpp"
+#include "index_table.hpp"
+#include "options.hpp"
+#include "periods.hpp"
+#include "sales.hpp"
+
+namespace lintel::addin {
+
+// A named column argument: the range and the name the messages use.
+struct NamedRange {
+    const char* name;
+    const Range* range;
+};
+
+// Checks that every given range is one column (unless allowMulti) and that all have the
+// same number of rows; messages name the ranges ("dates has 5000 rows, prices has 4999").
+// Returns the row count.
+std::size_t checkAligned(const std::vector<NamedRange>& ranges,
+                         const std::vector<const char*>& multiColumn = {});
+
+// The range of a required argument; "<name> is required" when missing.
+const Range& required(const Arg& a, const char* name);
+
+// A cell as a date serial (day 0 = 1899-12-30): a number (document serial + offset) or an
+// ISO text date "YYYY-MM-DD"; NaN otherwise.
+double cellDate(const Cell& c, const CallContext& ctx);
+// A cell as a number; NaN for blank or text.
+double cellNumber(const Cell& c);
+// A cell as an include flag: 1/0, TRUE/FALSE; blank = 0.
+char cellFlag(const Cell& c);
+// A cell as text for categories and ids: text as is, numbers in canonical form ("3", "2.5").
+std::string cellKey(const Cell& c);
+
+// Column c of a range from row `first` on.
+std::vector<double> dateColumn(const Range& r, std::size_t first, const CallContext& ctx,
+                               std::size_t c = 0);
+std::vector<double> numberColumn(const Range& r, std::size_t first, std::size_t c = 0);
+std::vector<std::string> keyColumn(const Range& r, std::size_t first, std::size_t c = 0);
+
+// The common arguments of the index functions.
+Frequency frequencyArg(const Arg& a);                       // default month
+std::optional<double> dateArg(const Arg& a, const char* name, const CallContext& ctx);
+double numberArg(const Arg& a, const char* name, double fallback);
+std::string textArg(const Arg& a, const char* name, const std::string& fallback);
+
+// Reads dates, prices and the optional include mask into a SalesInput (a header row is
+// skipped when options say header=1). Marks rows where every given cell is blank.
+// `extra` are further aligned ranges (characteristics, ids ...) checked for row count and
+// counted in the empty-row test.
+SalesInput readSales(const Arg& dates, const Arg& prices, const Arg& include,
+                     const OptionBag& opts, const CallContext& ctx,
+                     const std::vector<NamedRange>& extra = {});
+std::size_t headerRows(const OptionBag& opts);
+
+// Fills the options every index function shares (freq, base, minsales, level).
+void readIndexOptions(IndexOptions& o, const Arg& freq, const Arg& base, const OptionBag& opts,
+                      const CallContext& ctx);
+
+// The shared index layout: period start | index | count | lower | upper, with an optional
+// titles row and, with notes=1, the diagnostics below the table.
+OutTable indexTableCells(const IndexResult& r, const OptionBag& opts, const CallContext& ctx,
+                         const char* countTitle = "sales");
+// Appends the diagnostics (rows used, dropped by reason, warnings) as label | value rows.
+void appendNotes(OutTable& out, const Diagnostics& d, std::size_t width);
+
+// Common option and argument specs, described once.
+namespace spec {
+OptionSpec minsales();
+OptionSpec level();
+OptionSpec header();
+OptionSpec titles();
+OptionSpec notes();
+ArgSpec dates();
+ArgSpec prices();
+ArgSpec include();
+ArgSpec freq();
+ArgSpec base();
+ArgSpec options();
+extern const char* kIndexOutput;
+}  // namespace spec
+
+}  // namespace lintel::addin

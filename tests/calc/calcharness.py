@@ -1,0 +1,169 @@
+"""A throwaway headless LibreOffice for the integration tests.
+
+Office(oxt) makes a fresh profile in a temporary folder, installs the extension into it with
+unopkg, starts soffice.bin headless with a UNO socket on a free loopback port, and connects.
+On exit it terminates the office and then kills it by its process id if it is still there.
+As root (CI), unopkg and soffice run as the user `nobody`, since unopkg refuses to install
+into a user profile as root.
+"""
+import os
+import pwd
+import shutil
+import signal
+import socket
+import subprocess
+import tempfile
+import time
+
+import uno  # Debian's python3-uno
+from com.sun.star.beans import PropertyValue
+
+PROGRAM = os.environ.get("LINTEL_LO_PROGRAM", "/usr/lib/libreoffice/program")
+
+
+def prop(name, value):
+    p = PropertyValue()
+    p.Name = name
+    p.Value = value
+    return p
+
+
+def free_port():
+    with socket.socket() as s:
+        s.bind(("127.0.0.1", 0))
+        return s.getsockname()[1]
+
+
+class Office:
+    def __init__(self, oxt=None, keep=False):
+        self.oxt = oxt
+        self.keep = keep
+        self.proc = None
+        self.tmp = None
+
+    # --- lifecycle -------------------------------------------------------------------------
+    def __enter__(self):
+        self.tmp = tempfile.mkdtemp(prefix="lintel-office-")
+        os.chmod(self.tmp, 0o777)
+        self.profile = os.path.join(self.tmp, "profile")
+        self.home = os.path.join(self.tmp, "home")
+        os.makedirs(self.home)
+        self.user = None
+        if os.geteuid() == 0:
+            nobody = pwd.getpwnam("nobody")
+            self.user = (nobody.pw_uid, nobody.pw_gid)
+            os.chown(self.home, *self.user)
+        self.env = dict(os.environ, HOME=self.home, SAL_USE_VCLPLUGIN="svp")
+        self.env.pop("DISPLAY", None)
+        self.profile_url = uno.systemPathToFileUrl(self.profile)
+        # A profile that has never been started is wiped at the first start: start it once.
+        self._run([os.path.join(PROGRAM, "soffice.bin"), "--headless", "--norestore",
+                   "--terminate_after_init", f"-env:UserInstallation={self.profile_url}"], timeout=120)
+        if self.oxt:
+            oxt = os.path.join(self.tmp, os.path.basename(self.oxt))
+            shutil.copy(self.oxt, oxt)
+            os.chmod(oxt, 0o644)
+            out = self._run([os.path.join(PROGRAM, "unopkg"), "add", "--suppress-license", "-f",
+                             f"-env:UserInstallation={self.profile_url}", oxt], timeout=180)
+            if out.returncode != 0:
+                raise RuntimeError(f"unopkg add failed: {out.stdout}\n{out.stderr}")
+        self.port = free_port()
+        self.proc = subprocess.Popen(
+            [os.path.join(PROGRAM, "soffice.bin"), "--headless", "--invisible", "--nologo",
+             "--norestore", "--nodefault", "--nolockcheck",
+             f"-env:UserInstallation={self.profile_url}",
+             f"--accept=socket,host=127.0.0.1,port={self.port};urp;StarOffice.ComponentContext"],
+            env=self.env, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL,
+            start_new_session=True, **self._user_kwargs())
+        self.ctx = self._connect()
+        self.smgr = self.ctx.ServiceManager
+        self.desktop = self.smgr.createInstanceWithContext("com.sun.star.frame.Desktop", self.ctx)
+        return self
+
+    def __exit__(self, *exc):
+        self.stop()
+        if self.tmp and not self.keep:
+            shutil.rmtree(self.tmp, ignore_errors=True)
+
+    def stop(self):
+        if not self.proc:
+            return
+        try:
+            self.desktop.terminate()
+        except Exception:
+            pass
+        try:
+            self.proc.wait(timeout=20)
+        except subprocess.TimeoutExpired:
+            os.kill(self.proc.pid, signal.SIGKILL)
+            self.proc.wait(timeout=20)
+        self.proc = None
+
+    def alive(self):
+        """True when the soffice process runs and answers over UNO."""
+        if self.proc is None or self.proc.poll() is not None:
+            return False
+        try:
+            self.desktop.getComponents()
+            return True
+        except Exception:
+            return False
+
+    # --- helpers ---------------------------------------------------------------------------
+    def _user_kwargs(self):
+        return {"user": self.user[0], "group": self.user[1]} if self.user else {}
+
+    def _run(self, cmd, timeout):
+        return subprocess.run(cmd, env=self.env, capture_output=True, text=True, timeout=timeout,
+                              **self._user_kwargs())
+
+    def _connect(self, timeout=90):
+        local = uno.getComponentContext()
+        resolver = local.ServiceManager.createInstanceWithContext(
+            "com.sun.star.bridge.UnoUrlResolver", local)
+        url = f"uno:socket,host=127.0.0.1,port={self.port};urp;StarOffice.ComponentContext"
+        deadline = time.time() + timeout
+        while True:
+            if self.proc.poll() is not None:
+                raise RuntimeError(f"soffice exited with {self.proc.returncode} before accepting")
+            try:
+                return resolver.resolve(url)
+            except Exception:
+                if time.time() > deadline:
+                    raise
+                time.sleep(0.5)
+
+    def new_calc(self):
+        return self.desktop.loadComponentFromURL("private:factory/scalc", "_blank", 0,
+                                                 (prop("Hidden", True),))
+
+    def load(self, path):
+        return self.desktop.loadComponentFromURL(uno.systemPathToFileUrl(os.path.abspath(path)),
+                                                 "_blank", 0, (prop("Hidden", True),))
+
+    def service(self, name):
+        return self.smgr.createInstanceWithContext(name, self.ctx)
+
+
+def sheet_values(sheet, ref):
+    """The cells of a range as a list of rows; each cell a float, a str, or ('error', code)."""
+    rng = sheet.getCellRangeByName(ref)
+    out = []
+    for r in range(rng.Rows.Count):
+        row = []
+        for c in range(rng.Columns.Count):
+            cell = rng.getCellByPosition(c, r)
+            err = cell.getError()
+            if err:
+                row.append(("error", err))
+                continue
+            t = cell.FormulaResultType2 if cell.getType().value == "FORMULA" else None
+            kind = cell.getType().value
+            if kind == "EMPTY":
+                row.append(None)
+            elif kind == "VALUE" or (kind == "FORMULA" and t == 1):
+                row.append(cell.getValue())
+            else:
+                row.append(cell.getString())
+        out.append(row)
+    return out
