@@ -2,6 +2,8 @@
 //   lintel_gen idl <file>       the UNO interface org.lintel.XLintel
 //   lintel_gen methods <file>   the component's method definitions (included by the component)
 //   lintel_gen docs <file>      the function reference (docs/functions.md)
+//   lintel_gen json <file>      the table as JSON (for tests)
+#include <cctype>
 #include <cstdio>
 #include <fstream>
 #include <iostream>
@@ -109,11 +111,43 @@ std::string docs() {
     return o.str();
 }
 
+std::string jsonText(const std::string& s) {
+    std::string out = "\"";
+    for (char c : s) {
+        if (c == '"' || c == '\\') out += '\\';
+        out += c;
+    }
+    return out + "\"";
+}
+
+// The table as JSON, for tests that compare what Calc shows with the table.
+std::string json() {
+    std::ostringstream o;
+    o << "[\n";
+    bool firstF = true;
+    for (const auto& f : functionTable()) {
+        o << (firstF ? "" : ",\n") << "{\"name\": " << jsonText(f.name)
+          << ", \"method\": " << jsonText(f.method)
+          << ", \"description\": " << jsonText(f.description) << ", \"args\": [";
+        firstF = false;
+        for (std::size_t i = 0; i < f.args.size(); ++i)
+            o << (i ? ", " : "") << "{\"name\": " << jsonText(f.args[i].name)
+              << ", \"optional\": " << (f.args[i].kind == ArgKind::Optional ? "true" : "false")
+              << ", \"description\": " << jsonText(f.args[i].description) << "}";
+        o << "], \"options\": [";
+        for (std::size_t i = 0; i < f.options.size(); ++i)
+            o << (i ? ", " : "") << jsonText(f.options[i].key);
+        o << "]}";
+    }
+    o << "\n]\n";
+    return o.str();
+}
+
 }  // namespace
 
 int main(int argc, char** argv) {
     if (argc != 3) {
-        std::cerr << "usage: lintel_gen idl|methods|docs <output file>\n";
+        std::cerr << "usage: lintel_gen idl|methods|docs|json <output file>\n";
         return 2;
     }
     const std::string what = argv[1];
@@ -121,6 +155,7 @@ int main(int argc, char** argv) {
     if (what == "idl") text = idl();
     else if (what == "methods") text = methods();
     else if (what == "docs") text = docs();
+    else if (what == "json") text = json();
     else {
         std::cerr << "unknown output " << what << "\n";
         return 2;

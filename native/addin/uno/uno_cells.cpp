@@ -95,7 +95,10 @@ css::uno::Any toAny(const OutTable& t) {
     if (t.scalar && t.rows.size() == 1 && t.rows[0].size() == 1) return toUno(t.rows[0][0]);
     std::size_t width = 1;
     for (const auto& row : t.rows) width = std::max(width, row.size());
-    css::uno::Sequence<css::uno::Sequence<css::uno::Any>> out(static_cast<sal_Int32>(t.rows.size()));
+    // Calc repeats a one-row result down a taller array range, which would show the row again
+    // and again; a second, blank row stops that (rows below it show Calc's #N/A).
+    const std::size_t height = t.rows.size() == 1 ? 2 : t.rows.size();
+    css::uno::Sequence<css::uno::Sequence<css::uno::Any>> out(static_cast<sal_Int32>(height));
     auto* rows = out.getArray();
     for (std::size_t i = 0; i < t.rows.size(); ++i) {
         css::uno::Sequence<css::uno::Any> row(static_cast<sal_Int32>(width));
@@ -103,6 +106,12 @@ css::uno::Any toAny(const OutTable& t) {
         for (std::size_t j = 0; j < width; ++j)
             cells[j] = j < t.rows[i].size() ? toUno(t.rows[i][j]) : css::uno::Any(OUString());
         rows[i] = row;
+    }
+    if (height > t.rows.size()) {
+        css::uno::Sequence<css::uno::Any> blank(static_cast<sal_Int32>(width));
+        auto* cells = blank.getArray();
+        for (std::size_t j = 0; j < width; ++j) cells[j] = css::uno::Any(OUString());
+        rows[height - 1] = blank;
     }
     return css::uno::Any(out);
 }

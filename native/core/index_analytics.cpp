@@ -1,0 +1,125 @@
+#include "index_analytics.hpp"
+
+#include <cmath>
+
+#include <fmt/format.h>
+
+#include "hodrick_prescott.hpp"
+
+namespace lintel {
+
+namespace analytics {
+
+void countValues(const std::vector<double>& index, bool positiveOnly, Diagnostics& d) {
+    d.rowsIn = index.size();
+    std::size_t blank = 0, nonPos = 0;
+    for (double v : index) {
+        if (!hasValue(v)) ++blank;
+        else if (positiveOnly && v <= 0) ++nonPos;
+    }
+    d.rowsUsed = index.size() - blank - nonPos;
+    d.drop(reason::kBlankValue, blank);
+    d.drop(reason::kNonPositiveValue, nonPos);
+}
+
+std::vector<double> logChanges(const std::vector<double>& index, int lag) {
+    std::vector<double> out(index.size(), kNoValue);
+    if (lag < 1) return out;
+    for (std::size_t t = static_cast<std::size_t>(lag); t < index.size(); ++t) {
+        const double a = index[t - lag], b = index[t];
+        if (hasValue(a) && hasValue(b) && a > 0 && b > 0) out[t] = 100.0 * std::log(b / a);
+    }
+    return out;
+}
+
+double pearson(const std::vector<double>& x, const std::vector<double>& y, std::size_t* pairs) {
+    const std::size_t n = std::min(x.size(), y.size());
+    double sx = 0, sy = 0;
+    std::size_t k = 0;
+    for (std::size_t i = 0; i < n; ++i)
+        if (hasValue(x[i]) && hasValue(y[i])) {
+            sx += x[i];
+            sy += y[i];
+            ++k;
+        }
+    if (pairs) *pairs = k;
+    if (k < 2) return kNoValue;
+    const double mx = sx / k, my = sy / k;
+    double sxx = 0, syy = 0, sxy = 0;
+    for (std::size_t i = 0; i < n; ++i)
+        if (hasValue(x[i]) && hasValue(y[i])) {
+            const double dx = x[i] - mx, dy = y[i] - my;
+            sxx += dx * dx;
+            syy += dy * dy;
+            sxy += dx * dy;
+        }
+    if (!(sxx > 0) || !(syy > 0)) return kNoValue;
+    const double r = sxy / std::sqrt(sxx * syy);
+    return std::max(-1.0, std::min(1.0, r));
+}
+
+double sampleSd(const std::vector<double>& v, std::size_t* count) {
+    double s = 0;
+    std::size_t k = 0;
+    for (double x : v)
+        if (hasValue(x)) {
+            s += x;
+            ++k;
+        }
+    if (count) *count = k;
+    if (k < 2) return kNoValue;
+    const double m = s / k;
+    double ss = 0;
+    for (double x : v)
+        if (hasValue(x)) ss += (x - m) * (x - m);
+    return std::sqrt(ss / (k - 1));
+}
+
+}  // namespace analytics
+
+VolatilityResult indexVolatility(const std::vector<double>& index, const VolatilityOptions& o) {
+    if (o.lag < 1) throw InputError(fmt::format("lag must be 1 or more, got {}", o.lag));
+    VolatilityResult r;
+    analytics::countValues(index, true, r.diag);
+    const std::vector<double> ch = analytics::logChanges(index, o.lag);
+    r.volatility = analytics::sampleSd(ch, &r.changes);
+    if (r.changes < 2)
+        throw InputError(fmt::format(
+            "volatility needs at least 2 changes over {} period(s); the index gives {}", o.lag,
+            r.changes));
+    if (o.annual) r.volatility *= std::sqrt(double(periodsPerYear(o.freq)) / o.lag);
+    return r;
+}
+
+SnrResult indexSnr(const std::vector<double>& index, const SnrOptions& o) {
+    SnrResult r;
+    analytics::countValues(index, true, r.diag);
+    std::vector<double> x(index.size(), kNoValue);
+    for (std::size_t t = 0; t < index.size(); ++t)
+        if (hasValue(index[t]) && index[t] > 0) x[t] = 100.0 * std::log(index[t]);
+    HpOptions hp;
+    hp.freq = o.freq;
+    hp.lambda = o.lambda;
+    const HpResult d = hodrickPrescott(x, hp);  // throws below 3 values or for a bad lambda
+    r.lambda = d.lambda;
+    double ss = 0, nn = 0;
+    for (std::size_t t = 1; t < x.size(); ++t) {
+        if (!hasValue(x[t]) || !hasValue(x[t - 1])) continue;
+        const double dTrend = d.trend[t] - d.trend[t - 1];
+        const double dNoise = d.cycle[t] - d.cycle[t - 1];
+        ss += dTrend * dTrend;
+        nn += dNoise * dNoise;
+        ++r.pairs;
+    }
+    if (r.pairs < 2)
+        throw InputError(fmt::format(
+            "the signal-to-noise ratio needs at least 2 pairs of consecutive values; the index "
+            "has {}", r.pairs));
+    r.signal = std::sqrt(ss / r.pairs);
+    r.noise = std::sqrt(nn / r.pairs);
+    if (nn > 0) r.snr = ss / nn;
+    else r.diag.warn("no noise: the index equals its trend, the ratio is unbounded");
+    return r;
+}
+
+}  // namespace lintel

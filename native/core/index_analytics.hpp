@@ -1,0 +1,86 @@
+// Measures that describe one index series: volatility and signal-to-noise; plus the helpers
+// every index-series measure shares (lead-lag, turning points, seasonal factors, compare).
+//
+// Input of every measure here is an index column: one value per period, consecutive periods,
+// kNoValue (NaN) where the period has no value. Measures that use logs also treat a value
+// <= 0 as "no value" (counted in the diagnostics).
+//
+// Volatility (common practice; Eurostat RPPI Handbook 2013 uses the term informally): the
+// sample standard deviation (n - 1 denominator) of the lag-period log changes
+//     r_t = 100 ln(I_t / I_{t-lag}),
+// taken over every t where both ends have a value (overlapping changes when lag > 1).
+// Annualised (option annual): sd * sqrt(p / lag), p periods per year (the square-root-of-time
+// rule, exact when changes are uncorrelated). Unit: percentage points of log change.
+//
+// Signal-to-noise ratio (our own definition, documented in docs/methods/analytics.md):
+//     x_t = 100 ln I_t,  x = tau + n  (Hodrick-Prescott trend tau with the frequency's lambda;
+//                                      n = x - tau, the noise)
+//     SNR = mean over P of (tau_t - tau_{t-1})^2  /  mean over P of (n_t - n_{t-1})^2
+// where P is the set of periods t whose value and previous period's value both exist.
+// It compares the power of the trend's period moves with the power of the noise's period
+// moves: above 1, a reported period change is mostly movement of the trend.
+#pragma once
+
+#include <cstddef>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "diagnostics.hpp"
+#include "index_table.hpp"
+#include "periods.hpp"
+
+namespace lintel {
+
+namespace reason {
+inline const std::string kBlankValue = "blank or non-numeric value";
+inline const std::string kNonPositiveValue = "non-positive value";
+}  // namespace reason
+
+namespace analytics {
+// rowsIn = rows; rowsUsed = rows with a value (> 0 when positiveOnly); drops counted by reason.
+void countValues(const std::vector<double>& index, bool positiveOnly, Diagnostics& diag);
+// 100 ln(I_t / I_{t-lag}); kNoValue where an end is missing or not positive.
+std::vector<double> logChanges(const std::vector<double>& index, int lag);
+// Pearson correlation of the pairs (x_i, y_i) where both have a value; kNoValue when fewer
+// than 2 pairs or a side has no variation. pairs receives the number of pairs used.
+double pearson(const std::vector<double>& x, const std::vector<double>& y, std::size_t* pairs);
+// Sample standard deviation (n - 1) of the values present; kNoValue when fewer than 2.
+double sampleSd(const std::vector<double>& values, std::size_t* count);
+}  // namespace analytics
+
+// ---- INDEXVOLATILITY --------------------------------------------------------------------
+struct VolatilityOptions {
+    int lag = 1;                        // lag: periods spanned by each change, >= 1
+    bool annual = false;                // annual: scale to one year, sd * sqrt(p / lag)
+    Frequency freq = Frequency::Month;  // freq: "M" (default), "Q", "Y"; p for annual
+};
+
+struct VolatilityResult {
+    double volatility = kNoValue;  // percentage points of log change
+    std::size_t changes = 0;       // changes used
+    Diagnostics diag;
+};
+
+// Throws InputError when fewer than 2 changes can be formed.
+VolatilityResult indexVolatility(const std::vector<double>& index, const VolatilityOptions& options);
+
+// ---- INDEXSNR ---------------------------------------------------------------------------
+struct SnrOptions {
+    Frequency freq = Frequency::Month;  // freq: "M" (default), "Q", "Y"; sets lambda
+    std::optional<double> lambda;       // lambda: HP smoothing; default from freq (129600/1600/6.25)
+};
+
+struct SnrResult {
+    double snr = kNoValue;      // signal^2 / noise^2; kNoValue when the noise is exactly 0
+    double signal = kNoValue;   // root mean square of the trend's period changes (pct points)
+    double noise = kNoValue;    // root mean square of the noise's period changes (pct points)
+    std::size_t pairs = 0;      // period pairs used (both ends with a value)
+    double lambda = 0;          // HP lambda used
+    Diagnostics diag;
+};
+
+// Throws InputError when fewer than 3 positive values or fewer than 2 pairs are present.
+SnrResult indexSnr(const std::vector<double>& index, const SnrOptions& options);
+
+}  // namespace lintel

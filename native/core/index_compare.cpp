@@ -1,0 +1,75 @@
+#include "index_compare.hpp"
+
+#include <cmath>
+
+#include <fmt/format.h>
+
+namespace lintel {
+
+CompareResult indexCompare(const CompareInput& in, const CompareOptions& o) {
+    if (in.columns.empty()) throw InputError("indexes holds no column");
+    if (!in.names.empty() && in.names.size() != in.columns.size())
+        throw InputError("internal: one name per column expected");
+    const std::size_t n = in.columns.front().size();
+    for (std::size_t c = 0; c < in.columns.size(); ++c)
+        if (in.columns[c].size() != n)
+            throw InputError(fmt::format("indexes column {} has {} rows, column 1 has {}", c + 1,
+                                         in.columns[c].size(), n));
+    if (o.lag < 1) throw InputError(fmt::format("lag must be 1 or more, got {}", o.lag));
+    if (o.lambda && !(std::isfinite(*o.lambda) && *o.lambda > 0))
+        throw InputError(fmt::format("lambda must be a positive number, got {}", *o.lambda));
+    CompareResult r;
+    r.diag.rowsIn = n;
+    for (std::size_t c = 0; c < in.columns.size(); ++c) {
+        const auto& col = in.columns[c];
+        CompareRow row;
+        row.name = !in.names.empty() && !in.names[c].empty() ? in.names[c]
+                                                              : fmt::format("column {}", c + 1);
+        for (double v : col)
+            if (hasValue(v) && v > 0) ++row.values;
+        row.missing = n - row.values;
+        auto note = [&](const std::string& what, const char* why) {
+            r.diag.warn(fmt::format("{}: no {} ({})", row.name, what, why));
+        };
+        std::size_t changes = 0;
+        row.volatility = analytics::sampleSd(analytics::logChanges(col, o.lag), &changes);
+        if (hasValue(row.volatility) && o.annual)
+            row.volatility *= std::sqrt(double(periodsPerYear(o.freq)) / o.lag);
+        if (!hasValue(row.volatility)) note("volatility", "fewer than 2 changes");
+        try {
+            SnrOptions so;
+            so.freq = o.freq;
+            so.lambda = o.lambda;
+            row.snr = indexSnr(col, so).snr;
+        } catch (const InputError& e) {
+            note("signal-to-noise ratio", e.what());
+        }
+        for (std::size_t t = 1; t < n; ++t) {
+            const double a = col[t - 1], b = col[t];
+            if (!hasValue(a) || !hasValue(b) || a <= 0 || b <= 0) continue;
+            const double ch = std::fabs(100.0 * (b / a - 1.0));
+            if (!hasValue(row.maxAbsChange) || ch > row.maxAbsChange) row.maxAbsChange = ch;
+        }
+        if (c == 0) {
+            row.lag = 0;
+            row.corr = 1;
+        } else {
+            LeadLagOptions lo;
+            lo.freq = o.freq;
+            lo.changeLag = o.changeLag;
+            lo.maxLag = o.maxLag;
+            const LeadLagResult ll = leadLagOrEmpty({col, in.columns.front()}, lo);
+            if (hasValue(ll.bestCorr)) {
+                row.lag = ll.bestLag;
+                row.corr = ll.bestCorr;
+            } else {
+                note("lead-lag", "too few overlapping changes with the first column");
+            }
+        }
+        r.rows.push_back(row);
+    }
+    r.diag.rowsUsed = r.rows.empty() ? 0 : r.rows.front().values;
+    return r;
+}
+
+}  // namespace lintel

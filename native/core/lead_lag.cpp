@@ -1,0 +1,81 @@
+#include "lead_lag.hpp"
+
+#include <cstdlib>
+
+#include <fmt/format.h>
+
+namespace lintel {
+
+namespace {
+
+void validate(const LeadLagInput& in, const LeadLagOptions& o) {
+    if (in.a.size() != in.b.size())
+        throw InputError(fmt::format("the two indexes must cover the same periods: {} rows and {} rows",
+                                     in.a.size(), in.b.size()));
+    if (o.changeLag < 0) throw InputError(fmt::format("lag must be 1 or more, got {}", o.changeLag));
+    if (o.maxLag < -1) throw InputError(fmt::format("maxlag must be 0 or more, got {}", o.maxLag));
+    if (o.minPairs < 3) throw InputError("minpairs must be at least 3");
+}
+
+}  // namespace
+
+LeadLagResult leadLagOrEmpty(const LeadLagInput& in, const LeadLagOptions& o) {
+    validate(in, o);
+    LeadLagResult r;
+    const int p = periodsPerYear(o.freq);
+    r.changeLag = o.changeLag > 0 ? o.changeLag : p;
+    const int maxLag = o.maxLag >= 0 ? o.maxLag : std::max(p, 2);
+    const std::size_t n = in.a.size();
+    r.diag.rowsIn = n;
+    std::size_t both = 0, blank = 0, nonPos = 0;
+    for (std::size_t i = 0; i < n; ++i) {
+        const double x = in.a[i], y = in.b[i];
+        if (!hasValue(x) || !hasValue(y)) ++blank;
+        else if (x <= 0 || y <= 0) ++nonPos;
+        else ++both;
+    }
+    r.diag.rowsUsed = both;
+    r.diag.drop("period where either index has no value", blank);
+    r.diag.drop(reason::kNonPositiveValue, nonPos);
+
+    const std::vector<double> ca = analytics::logChanges(in.a, r.changeLag);
+    const std::vector<double> cb = analytics::logChanges(in.b, r.changeLag);
+    bool any = false;
+    for (int lag = -maxLag; lag <= maxLag; ++lag) {
+        // Pairs (a_t, b_{t+lag}).
+        std::vector<double> x, y;
+        for (std::size_t t = 0; t < n; ++t) {
+            const long s = static_cast<long>(t) + lag;
+            if (s < 0 || s >= static_cast<long>(n)) continue;
+            x.push_back(ca[t]);
+            y.push_back(cb[static_cast<std::size_t>(s)]);
+        }
+        LeadLagRow row;
+        row.lag = lag;
+        const double c = analytics::pearson(x, y, &row.pairs);
+        if (row.pairs >= o.minPairs) row.corr = c;
+        if (hasValue(row.corr)) {
+            const bool better =
+                !any || row.corr > r.bestCorr ||
+                (row.corr == r.bestCorr && std::abs(lag) < std::abs(r.bestLag));
+            if (better) {
+                r.bestCorr = row.corr;
+                r.bestLag = lag;
+                any = true;
+            }
+        }
+        r.rows.push_back(row);
+    }
+    return r;
+}
+
+LeadLagResult indexLeadLag(const LeadLagInput& in, const LeadLagOptions& o) {
+    LeadLagResult r = leadLagOrEmpty(in, o);
+    if (!hasValue(r.bestCorr))
+        throw InputError(fmt::format(
+            "no lag has {} or more pairs of {}-period changes with variation in both indexes",
+            o.minPairs, r.changeLag));
+    return r;
+}
+
+}  // namespace lintel

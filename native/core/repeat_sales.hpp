@@ -1,0 +1,173 @@
+// Repeat-sales price indexes from raw sales: pairs of consecutive sales of one property,
+// regressed on period dummies.
+//
+//   y_i = ln(P_second / P_first) = b_t(i) - b_s(i) + e_i,  b_base = 0,  I_t = 100 exp(b_t)
+//
+// where s(i), t(i) are the periods of the first and second sale of pair i.
+// - "bmn": Bailey, Muth & Nourse (1963), "A regression method for real estate price index
+//   construction", JASA 58:933-942: ordinary least squares on the +1/-1 dummies.
+// - "cs" (default): Case & Shiller (1987), "Prices of single-family homes since 1970", New
+//   England Economic Review, Sep/Oct, 45-56; (1989) "The efficiency of the market for
+//   single-family homes", AER 79:125-137: (1) BMN OLS; (2) OLS of the squared stage-1
+//   residuals on a constant and the interval between the sales; (3) weighted least squares
+//   with weights 1 / fitted variance.
+// - "cs2": as "cs" with the squared interval added in stage (2) (Calhoun 1996, "OFHEO house
+//   price indexes: HPI technical description", Office of Federal Housing Enterprise
+//   Oversight).
+// With chain = 1 published values are frozen: after an initial window estimated jointly,
+// each later period is estimated from the pairs that end in it given the frozen values of
+// the periods where they start (our own construction, documented in
+// docs/methods/repeat_sales.md).
+//
+// The T x T normal equations are accumulated pair by pair (each pair touches two periods)
+// and solved with Eigen's LDLT; no pairs x periods design matrix is ever formed.
+#pragma once
+
+#include <cstddef>
+#include <optional>
+#include <string>
+#include <string_view>
+#include <utility>
+#include <vector>
+
+#include "index_table.hpp"
+#include "sales.hpp"
+
+namespace lintel {
+
+enum class RepeatSalesMethod { CaseShiller, BaileyMuthNourse, CaseShillerQuadratic };
+
+// "cs", "bmn", "cs2" (any case, surrounding blanks ignored); nullopt for anything else.
+std::optional<RepeatSalesMethod> parseRepeatSalesMethod(std::string_view text);
+const char* repeatSalesMethodCode(RepeatSalesMethod m);  // "cs", "bmn", "cs2"
+
+// Raw sales, one entry per spreadsheet row.
+struct RepeatSalesInput {
+    // Property id as text; "" (or only blanks) = blank id: the row is dropped. Ids are compared
+    // after trimming leading and trailing blanks, case-sensitively. Numeric cells become text
+    // with propertyIdFromNumber (in the add-in's cell conversion), so 123 and "123" are one id.
+    std::vector<std::string> id;
+    SalesInput sales;            // date, price, include, emptyRow as for every index
+    std::vector<char> changed;   // empty = no flags; else 1 = the property changed at this sale
+                                 // (renovated, extended, rebuilt): the pair ending here is
+                                 // dropped, the next pair starts from this sale
+};
+
+// Canonical text of a numeric id cell: integers without a decimal point ("123", "-7"),
+// other numbers with up to 15 significant digits ("12.5"); NaN gives "" (blank id).
+std::string propertyIdFromNumber(double value);
+
+struct RepeatSalesOptions : IndexOptions {
+    // IndexOptions: freq (default "M"), base (default: first period with a value), level
+    // (0.95), minsales (1): a period informed by fewer used pairs gets no value; the pairs
+    // that inform a period are those with a sale in it for jointly estimated periods
+    // (chain 0, and the initial window of chain 1) and those ending in it for chained periods.
+    RepeatSalesMethod method = RepeatSalesMethod::CaseShiller;  // method: "cs", "bmn", "cs2"
+    double minHoldMonths = 6;  // minhold: pairs held fewer completed calendar months are
+                               // dropped ("flips"); 0 = off
+    double maxRate = 1.0;      // maxrate: pairs whose |annualised log return| exceeds it are
+                               // dropped; 0 = off
+    int chain = 0;             // chain: 0 re-estimates the whole history; 1 freezes values
+    int chainInit = 0;         // init (chain 1): periods estimated jointly before chaining
+                               // starts, counted from the first period of the data;
+                               // 0 = two years (24 months, 8 quarters, 2 years)
+};
+
+// Why a pair was not used. Codes are stable; the text is what RSPAIRS shows.
+enum class PairStatus {
+    Used = 0,
+    FirstSaleUnusable,   // "first sale: <row reason>" (price, include)
+    SecondSaleUnusable,  // "second sale: <row reason>"
+    Duplicate,           // "duplicate sale (same id and date)": second row is the dropped one
+    Changed,             // "property changed at the second sale"
+    SamePeriod,          // "both sales in one period"
+    ShortHold,           // "held less than <minhold> months"
+    ExtremeReturn,       // "annualised log return beyond +/-<maxrate>"
+    NotLinked,           // "not linked to the base period": its periods lie in another
+                         // connected part of the pair graph
+    ChainUnreached,      // "first sale in a period without a value" (chain 1)
+    ThinPeriod,          // "fewer than <minsales> pairs end in the period" (chain 1)
+    NotEstimated,        // "index not estimated" (RSPAIRS when the index cannot be built)
+};
+
+// One row of the pair audit (RSPAIRS).
+struct SalePair {
+    std::string id;                  // trimmed id
+    std::size_t firstRow = 0;        // input rows (0-based) of the two sales
+    std::size_t secondRow = 0;
+    double firstDate = kNoValue, firstPrice = kNoValue;
+    double secondDate = kNoValue, secondPrice = kNoValue;
+    double monthsHeld = kNoValue;    // completed calendar months between the sale days
+    double annualRate = kNoValue;    // ln(P2/P1) * 365.25 / days held; kNoValue when a price
+                                     // is unusable or the days are equal
+    bool used = false;
+    PairStatus status = PairStatus::Used;
+    std::string reason;              // "" when used
+    double weight = 0;               // weight in the final stage, normalised to mean 1 over
+                                     // the used pairs; 0 when not used
+};
+
+// Pairs formed and dropped, by reason (in the order reasons first occur).
+struct PairCounts {
+    std::size_t formed = 0;
+    std::size_t used = 0;
+    std::vector<std::pair<std::string, std::size_t>> dropped;
+    std::string summary() const;  // "9120 of 10000 pairs used; dropped: 500 ..."
+};
+
+// Stage-2 variance model: fitted variance of a pair = c0 + c1 * years + c2 * years^2
+// (years between the two sales' periods). Empty for bmn, or when equal weights were used.
+struct RepeatSalesVarianceModel {
+    std::vector<double> coef;
+    double floor = kNoValue;       // smallest variance allowed (5 % of the mean squared
+                                   // stage-1 residual)
+    std::size_t floored = 0;       // pairs whose fitted variance was raised to the floor
+};
+
+struct RepeatSalesResult {
+    IndexTable table;   // count = used pairs whose second sale is in the period
+    Diagnostics diag;   // rows: used = in at least one used pair; pair reasons in pairCounts
+    std::vector<SalePair> pairs;  // the audit, grouped by id (in order of first appearance)
+                                  // then by date
+    PairCounts pairCounts;
+    RepeatSalesVarianceModel variance;
+    std::vector<double> logIndex;   // b_t - b_base per period; kNoValue where no value
+    std::vector<double> logSe;      // standard error of b_t - b_base
+    std::vector<double> df;         // residual degrees of freedom behind each band
+    double scale = kNoValue;        // residual variance of the final stage (chain 0)
+    std::string summary() const;    // diag.summary() + "; " + pairCounts.summary()
+};
+
+// CHAINRS: the index with its audit. Throws InputError when no index can be built (no
+// usable pair, base outside the data or without a value, invalid options).
+RepeatSalesResult repeatSalesIndex(const RepeatSalesInput& input,
+                                   const RepeatSalesOptions& options);
+
+// RSPAIRS: the audit table under the same filters and options. Does not throw when the index
+// itself cannot be built: the pairs that passed the filters are then marked NotEstimated and
+// the reason is in diag.warnings. Throws InputError only for invalid options or columns.
+struct PairAudit {
+    std::vector<SalePair> pairs;
+    PairCounts counts;
+    Diagnostics diag;
+};
+PairAudit repeatSalesPairs(const RepeatSalesInput& input, const RepeatSalesOptions& options);
+
+// Pairs given directly (one entry per pair; first and second sale of one property). The same
+// filters (except changed), estimators and output as repeatSalesIndex; ids are optional.
+struct RepeatSalesPairInput {
+    std::vector<std::string> id;  // empty, or one per pair (shown in the audit only)
+    std::vector<double> firstDate, firstPrice, secondDate, secondPrice;
+};
+RepeatSalesResult repeatSalesFromPairs(const RepeatSalesPairInput& input,
+                                       const RepeatSalesOptions& options);
+
+// Reason texts of the row-level drops added by the repeat-sales estimators.
+namespace reason {
+inline const std::string kBlankId = "blank property id";
+inline const std::string kDuplicateSale = "duplicate sale (same id and date)";
+inline const std::string kSingleSale = "only sale of its property";
+inline const std::string kNoUsedPair = "in no used pair";
+}  // namespace reason
+
+}  // namespace lintel

@@ -1,0 +1,59 @@
+#include "seasonal.hpp"
+
+#include <fmt/format.h>
+
+namespace lintel {
+
+SeasonalResult seasonalFactors(const std::vector<double>& index, const SeasonalOptions& o) {
+    if (o.freq == Frequency::Year)
+        throw InputError("seasonal factors need a monthly or quarterly index (freq M or Q)");
+    const int p = periodsPerYear(o.freq);
+    const int n = static_cast<int>(index.size());
+    SeasonalResult r;
+    analytics::countValues(index, true, r.diag);
+    if (n < 2 * p)
+        throw InputError(fmt::format(
+            "seasonal factors need at least 2 years of rows ({}), the index has {}", 2 * p, n));
+    auto ok = [&](int t) { return hasValue(index[t]) && index[t] > 0; };
+
+    r.trend.assign(n, kNoValue);
+    const int h = p / 2;
+    for (int t = h; t + h < n; ++t) {
+        bool full = true;
+        double s = 0;
+        for (int j = -h; j <= h && full; ++j) {
+            if (!ok(t + j)) full = false;
+            else s += (j == -h || j == h ? 0.5 : 1.0) * index[t + j];
+        }
+        if (full) r.trend[t] = s / p;
+    }
+
+    std::vector<double> sum(p, 0.0);
+    r.ratios.assign(p, 0);
+    for (int t = 0; t < n; ++t)
+        if (ok(t) && hasValue(r.trend[t])) {
+            sum[t % p] += index[t] / r.trend[t];
+            ++r.ratios[t % p];
+        }
+    r.periodFactors.assign(p, kNoValue);
+    double mean = 0;
+    for (int k = 0; k < p; ++k) {
+        if (r.ratios[k] == 0)
+            throw InputError(fmt::format(
+                "seasonal factors: position {} of the year (rows {}, {}, ...) has no complete "
+                "moving average; too many missing values", k + 1, k + 1, k + 1 + p));
+        r.periodFactors[k] = sum[k] / r.ratios[k];
+        mean += r.periodFactors[k] / p;
+    }
+    for (double& f : r.periodFactors) f /= mean;
+
+    r.factor.assign(n, kNoValue);
+    r.adjusted.assign(n, kNoValue);
+    for (int t = 0; t < n; ++t) {
+        r.factor[t] = r.periodFactors[t % p];
+        if (ok(t)) r.adjusted[t] = index[t] / r.factor[t];
+    }
+    return r;
+}
+
+}  // namespace lintel
