@@ -18,8 +18,8 @@ import unittest
 import numpy as np
 import pandas as pd
 
-sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
-from calcharness import Office, sheet_values  # noqa: E402
+sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "..", "scripts"))
+from lintel_office import Office, sheet_values  # noqa: E402
 
 OXT = os.environ.get("LINTEL_OXT")
 GEN_JSON = os.environ.get("LINTEL_TABLE_JSON")

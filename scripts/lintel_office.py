@@ -1,6 +1,7 @@
-"""A throwaway headless LibreOffice for the integration tests.
+"""A headless LibreOffice for the integration tests and the demo.
 
-Office(oxt) makes a fresh profile in a temporary folder, installs the extension into it with
+Office(oxt) makes a fresh profile in a temporary folder (or uses `profile`, a folder that is
+kept), installs the extension into it with
 unopkg, starts soffice.bin headless with a UNO socket on a free loopback port, and connects.
 On exit it terminates the office and then kills it by its process id if it is still there.
 As root (CI), unopkg and soffice run as the user `nobody`, since unopkg refuses to install
@@ -35,9 +36,10 @@ def free_port():
 
 
 class Office:
-    def __init__(self, oxt=None, keep=False):
+    def __init__(self, oxt=None, keep=False, profile=None):
         self.oxt = oxt
         self.keep = keep
+        self.fixed_profile = os.path.abspath(profile) if profile else None
         self.proc = None
         self.tmp = None
 
@@ -45,7 +47,7 @@ class Office:
     def __enter__(self):
         self.tmp = tempfile.mkdtemp(prefix="lintel-office-")
         os.chmod(self.tmp, 0o777)
-        self.profile = os.path.join(self.tmp, "profile")
+        self.profile = self.fixed_profile or os.path.join(self.tmp, "profile")
         self.home = os.path.join(self.tmp, "home")
         os.makedirs(self.home)
         self.user = None
@@ -53,6 +55,12 @@ class Office:
             nobody = pwd.getpwnam("nobody")
             self.user = (nobody.pw_uid, nobody.pw_gid)
             os.chown(self.home, *self.user)
+            if self.fixed_profile:
+                os.makedirs(self.profile, exist_ok=True)
+                for root, dirs, files in os.walk(self.profile):
+                    for name in dirs + files:
+                        os.lchown(os.path.join(root, name), *self.user)
+                os.chown(self.profile, *self.user)
         self.env = dict(os.environ, HOME=self.home, SAL_USE_VCLPLUGIN="svp")
         self.env.pop("DISPLAY", None)
         self.profile_url = uno.systemPathToFileUrl(self.profile)
@@ -132,6 +140,11 @@ class Office:
                 if time.time() > deadline:
                     raise
                 time.sleep(0.5)
+
+    @property
+    def scratch(self):
+        """A folder the office process may write to (for storeToURL)."""
+        return self.tmp
 
     def new_calc(self):
         return self.desktop.loadComponentFromURL("private:factory/scalc", "_blank", 0,

@@ -1,0 +1,32 @@
+#!/usr/bin/env bash
+# Installs the Debian packages Lintel needs that are missing. Usage: scripts/deps.sh build|test|demo
+# (test and demo include build). As root it runs apt-get; otherwise it uses sudo when present.
+set -euo pipefail
+
+build=(cmake make g++ pkg-config libeigen3-dev libfmt-dev libboost-dev libboost-test-dev
+       libreoffice-calc-nogui libreoffice-dev libreoffice-dev-common python3-uno)
+test=(python3-numpy python3-pandas python3-scipy python3-statsmodels r-base-core r-cran-aer
+      libopenblas0-pthread)
+demo=(python3-numpy poppler-utils fonts-dejavu-core)
+
+want=("${build[@]}")
+case "${1:-build}" in
+  build) ;;
+  test) want+=("${test[@]}") ;;
+  demo) want+=("${demo[@]}") ;;
+  *) echo "usage: $0 build|test|demo" >&2; exit 2 ;;
+esac
+
+missing=()
+for p in "${want[@]}"; do
+  dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q "install ok installed" || missing+=("$p")
+done
+[ ${#missing[@]} -eq 0 ] && exit 0
+
+echo "Installing missing Debian packages: ${missing[*]}"
+if [ "$(id -u)" -eq 0 ]; then sudo=(); elif command -v sudo >/dev/null; then sudo=(sudo); else
+  echo "Not root and no sudo: install them with apt-get install ${missing[*]}" >&2; exit 1
+fi
+export DEBIAN_FRONTEND=noninteractive
+"${sudo[@]}" apt-get update -q
+"${sudo[@]}" apt-get install -y -q --no-install-recommends "${missing[@]}"

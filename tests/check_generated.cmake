@@ -1,0 +1,17 @@
+# Fails when idl/org/lintel/XLintel.idl or docs/functions.md differ from what the function
+# table generates now. Fix: cmake --build build --target refresh-generated
+file(MAKE_DIRECTORY ${OUT})
+foreach(pair "idl;idl/org/lintel/XLintel.idl" "docs;docs/functions.md")
+  list(GET pair 0 kind)
+  list(GET pair 1 path)
+  execute_process(COMMAND ${GEN} ${kind} ${OUT}/${kind}.out RESULT_VARIABLE rc)
+  if(NOT rc EQUAL 0)
+    message(FATAL_ERROR "lintel_gen ${kind} failed")
+  endif()
+  file(READ ${OUT}/${kind}.out want)
+  file(READ ${SRC}/${path} have)
+  if(NOT want STREQUAL have)
+    message(FATAL_ERROR "${path} is out of date: run cmake --build build --target refresh-generated")
+  endif()
+  message(STATUS "${path} is current")
+endforeach()
