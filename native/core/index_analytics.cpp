@@ -77,6 +77,13 @@ double sampleSd(const std::vector<double>& v, std::size_t* count) {
 
 }  // namespace analytics
 
+double snrLambda(Frequency f) {
+    const double pi = 3.14159265358979323846;
+    const double w = 2 * pi / (2.0 * periodsPerYear(f));
+    const double g = 1 - std::cos(w);
+    return 1.0 / (4 * g * g);
+}
+
 VolatilityResult indexVolatility(const std::vector<double>& index, const VolatilityOptions& o) {
     if (o.lag < 1) throw InputError(fmt::format("lag must be 1 or more, got {}", o.lag));
     VolatilityResult r;
@@ -99,7 +106,7 @@ SnrResult indexSnr(const std::vector<double>& index, const SnrOptions& o) {
         if (hasValue(index[t]) && index[t] > 0) x[t] = 100.0 * std::log(index[t]);
     HpOptions hp;
     hp.freq = o.freq;
-    hp.lambda = o.lambda;
+    hp.lambda = o.lambda ? *o.lambda : snrLambda(o.freq);
     const HpResult d = hodrickPrescott(x, hp);  // throws below 3 values or for a bad lambda
     r.lambda = d.lambda;
     double ss = 0, nn = 0;

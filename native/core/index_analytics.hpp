@@ -13,12 +13,17 @@
 // rule, exact when changes are uncorrelated). Unit: percentage points of log change.
 //
 // Signal-to-noise ratio (our own definition, documented in docs/methods/analytics.md):
-//     x_t = 100 ln I_t,  x = tau + n  (Hodrick-Prescott trend tau with the frequency's lambda;
-//                                      n = x - tau, the noise)
+//     x_t = 100 ln I_t,  x = tau + n  (Hodrick-Prescott trend tau, n = x - tau the noise)
 //     SNR = mean over P of (tau_t - tau_{t-1})^2  /  mean over P of (n_t - n_{t-1})^2
 // where P is the set of periods t whose value and previous period's value both exist.
 // It compares the power of the trend's period moves with the power of the noise's period
 // moves: above 1, a reported period change is mostly movement of the trend.
+// The HP lambda is NOT the business-cycle one (that would count the market's own cycles as
+// noise): it puts the filter's half-gain point at a cycle of two years. The HP trend's gain at
+// frequency w is 1 / (1 + 4 lambda (1 - cos w)^2) (King & Rebelo 1993, J. Economic Dynamics
+// and Control 17:207, from memory), so half gain at a cycle of P periods needs
+//     lambda = 1 / (4 (1 - cos(2 pi / P))^2),   P = 2 years of periods:
+// 215.3 monthly (P = 24), 2.914 quarterly (P = 8), 0.0625 yearly (P = 2).
 #pragma once
 
 #include <cstddef>
@@ -66,9 +71,13 @@ struct VolatilityResult {
 VolatilityResult indexVolatility(const std::vector<double>& index, const VolatilityOptions& options);
 
 // ---- INDEXSNR ---------------------------------------------------------------------------
+// HP lambda whose trend gain is 1/2 at a cycle of two years (see above).
+double snrLambda(Frequency f);
+
 struct SnrOptions {
     Frequency freq = Frequency::Month;  // freq: "M" (default), "Q", "Y"; sets lambda
-    std::optional<double> lambda;       // lambda: HP smoothing; default from freq (129600/1600/6.25)
+    std::optional<double> lambda;       // lambda: HP smoothing; default snrLambda(freq)
+                                        // (215.3 M, 2.914 Q, 0.0625 Y)
 };
 
 struct SnrResult {

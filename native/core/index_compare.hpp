@@ -5,7 +5,7 @@
 // for a column (too few values) is kNoValue for that column only, with a warning.
 //
 //   volatility     sd of 100 ln(I_t / I_{t-lag}), lag = option lag (default 1)
-//   snr            as INDEXSNR with the frequency's lambda
+//   snr            as INDEXSNR (default lambda snrLambda(freq))
 //   maxchange      max over t of |100 (I_t / I_{t-1} - 1)|, the largest period change in percent
 //   lag, corr      best lag and its correlation of INDEXLEADLAG(column, first column): a
 //                  positive lag means THIS column leads the first column by lag periods. The
@@ -30,7 +30,7 @@ struct CompareOptions {
     Frequency freq = Frequency::Month;  // freq: "M" (default), "Q", "Y"
     int lag = 1;                        // lag: change lag of the volatility
     bool annual = false;                // annual: annualise the volatility
-    std::optional<double> lambda;       // lambda: HP lambda of the SNR; default from freq
+    std::optional<double> lambda;       // lambda: HP lambda of the SNR; default snrLambda(freq)
     int changeLag = 0;                  // leadlag: change lag of the lead-lag; 0 = one year
     int maxLag = -1;                    // maxlag: as INDEXLEADLAG (-1 = one year of periods)
 };

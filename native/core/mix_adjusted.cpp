@@ -1,0 +1,241 @@
+#include "mix_adjusted.hpp"
+
+#include <algorithm>
+#include <cctype>
+#include <cmath>
+#include <map>
+#include <numeric>
+
+#include <fmt/format.h>
+
+#include "raw_index.hpp"
+
+namespace lintel {
+
+const char* const kBlankStratum = "blank stratum";
+
+namespace {
+
+bool blankText(const std::string& s) {
+    return std::all_of(s.begin(), s.end(),
+                       [](char c) { return std::isspace(static_cast<unsigned char>(c)); });
+}
+
+long floorDiv(long a, long b) { return a / b - ((a % b != 0) && ((a < 0) != (b < 0))); }
+
+// Per stratum-period cells, flattened h * T + t.
+struct Cells {
+    int H = 0, T = 0;
+    std::vector<std::size_t> count;
+    std::vector<double> value;  // sum of prices
+    std::vector<double> price;  // median or mean; kNoValue below minsales
+    std::size_t at(int h, int t) const { return static_cast<std::size_t>(h) * T + t; }
+    bool priced(int h, int t) const { return hasValue(price[at(h, t)]); }
+};
+
+class MixBuilder {
+public:
+    MixBuilder(const Cells& c, const MixOptions& o, MixResult& r)
+        : c_(c), o_(o), r_(r), level_(c.T, kNoValue), used_(c.T, 0), weighted_(c.H, 0) {}
+
+    // Weights over strata priced at ref, from the sales of periods [a, b] (clipped).
+    std::vector<double> weights(int ref, int a, int b) {
+        a = std::max(a, 0);
+        b = std::min(b, c_.T - 1);
+        std::vector<double> w(c_.H, 0.0);
+        for (int h = 0; h < c_.H; ++h) {
+            double x = 0;
+            if (o_.weights == MixWeights::All) {
+                for (int t = 0; t < c_.T; ++t) x += c_.count[c_.at(h, t)];
+            } else {
+                for (int t = a; t <= b; ++t)
+                    x += o_.weights == MixWeights::Value ? c_.value[c_.at(h, t)]
+                                                         : double(c_.count[c_.at(h, t)]);
+            }
+            if (x > 0 && !c_.priced(h, ref)) {
+                ++r_.unpricedAtReference;
+                continue;
+            }
+            if (c_.priced(h, ref)) w[h] = x;
+        }
+        return w;
+    }
+
+    // Evaluates one link: relative levels L(t) for t in [from, to] against ref, written as
+    // startLevel * L(t). Returns false when the weights are all zero.
+    bool link(int ref, int from, int to, std::vector<double> w, double startLevel) {
+        const double total = std::accumulate(w.begin(), w.end(), 0.0);
+        if (!(total > 0)) return false;
+        for (int h = 0; h < c_.H; ++h) {
+            w[h] /= total;
+            if (w[h] > 0) weighted_[h] = 1;
+        }
+        ++r_.links;
+        std::vector<double> last(c_.H, 1.0);
+        auto evaluate = [&](int t) {
+            double sum = 0, wPresent = 0, wCarried = 0;
+            std::size_t used = 0, empty = 0;
+            for (int h = 0; h < c_.H; ++h) {
+                if (w[h] <= 0) continue;
+                if (c_.priced(h, t)) {
+                    const double rel = c_.price[c_.at(h, t)] / c_.price[c_.at(h, ref)];
+                    last[h] = rel;
+                    sum += w[h] * rel;
+                    wPresent += w[h];
+                    used += c_.count[c_.at(h, t)];
+                } else {
+                    ++empty;
+                    if (o_.empty == EmptyStratumRule::Carry) {
+                        sum += w[h] * last[h];
+                        wCarried += w[h];
+                    }
+                }
+            }
+            if (t < from || t > to) return;  // only keeps `last` up to date
+            if (!(wPresent > 0)) return;     // no weighted stratum priced: no value
+            const double rel = o_.empty == EmptyStratumRule::Carry ? sum / (wPresent + wCarried)
+                                                                   : sum / wPresent;
+            level_[t] = startLevel * rel;
+            used_[t] = used;
+            r_.emptyCells += empty;
+        };
+        for (int t = ref; t <= to; ++t) evaluate(t);  // at ref every weighted stratum is priced
+        std::fill(last.begin(), last.end(), 1.0);
+        for (int t = std::min(ref - 1, to); t >= from; --t) evaluate(t);
+        return true;
+    }
+
+    std::vector<double>& level() { return level_; }
+    std::vector<std::size_t>& used() { return used_; }
+    std::size_t weightedStrata() const {
+        return static_cast<std::size_t>(std::count(weighted_.begin(), weighted_.end(), 1));
+    }
+
+private:
+    const Cells& c_;
+    const MixOptions& o_;
+    MixResult& r_;
+    std::vector<double> level_;
+    std::vector<std::size_t> used_;
+    std::vector<char> weighted_;
+};
+
+}  // namespace
+
+MixResult indexMix(const MixInput& in, const MixOptions& o) {
+    validateCommon(o);
+    if (in.strata.empty()) throw InputError("strata needs at least one column");
+    const std::size_t n = in.sales.date.size();
+    for (std::size_t k = 0; k < in.strata.size(); ++k)
+        if (in.strata[k].size() != n)
+            throw InputError(fmt::format("strata column {} has {} rows, dates has {}", k + 1,
+                                         in.strata[k].size(), n));
+    std::vector<char> valid(n, 1);
+    for (const auto& col : in.strata)
+        for (std::size_t i = 0; i < n; ++i)
+            if (blankText(col[i])) valid[i] = 0;
+
+    MixResult r;
+    const ScreenedSales s = screenSales(in.sales, o.freq, r.diag, &valid, kBlankStratum);
+
+    // Strata ids in order of first appearance (deterministic).
+    std::map<std::string, int> ids;
+    std::vector<int> sid(s.rows.size());
+    for (std::size_t j = 0; j < s.rows.size(); ++j) {
+        std::string key;
+        for (std::size_t k = 0; k < in.strata.size(); ++k) {
+            if (k) key += '\x1f';
+            key += in.strata[k][s.rows[j]];
+        }
+        const auto it = ids.emplace(key, static_cast<int>(ids.size())).first;
+        sid[j] = it->second;
+    }
+    Cells c;
+    c.H = static_cast<int>(ids.size());
+    c.T = s.axis.count;
+    r.strata = ids.size();
+    const std::size_t HT = static_cast<std::size_t>(c.H) * c.T;
+    std::vector<std::vector<double>> prices(HT);
+    for (std::size_t j = 0; j < s.rows.size(); ++j)
+        prices[c.at(sid[j], s.period[j])].push_back(in.sales.price[s.rows[j]]);
+    c.count.assign(HT, 0);
+    c.value.assign(HT, 0.0);
+    c.price.assign(HT, kNoValue);
+    std::size_t thinRows = 0;
+    std::vector<double> anyPrice(c.T, kNoValue);
+    for (std::size_t k = 0; k < HT; ++k) {
+        auto& v = prices[k];
+        c.count[k] = v.size();
+        c.value[k] = std::accumulate(v.begin(), v.end(), 0.0);
+        if (v.empty()) continue;
+        if (v.size() < o.minSales) {
+            ++r.thinCells;
+            thinRows += v.size();
+            continue;
+        }
+        c.price[k] = o.stat == MixStatistic::Median ? stats::median(v)
+                                                     : c.value[k] / double(v.size());
+        anyPrice[k % c.T] = 1.0;
+    }
+
+    MixBuilder b(c, o, r);
+    if (!o.chain) {
+        const int base = resolveBase(s.axis, anyPrice, o);
+        b.link(base, 0, c.T - 1, b.weights(base, base, base), 1.0);
+    } else {
+        const int p = periodsPerYear(o.freq);
+        auto yearOf = [&](int t) { return floorDiv(s.axis.firstKey + t, p); };
+        int first = -1;
+        for (int t = 0; t < c.T && first < 0; ++t)
+            if (hasValue(anyPrice[t])) first = t;
+        if (first < 0)
+            throw InputError(fmt::format("no stratum has {} or more sales in any period", o.minSales));
+        // Positions of each calendar year on the axis.
+        auto yearStart = [&](long y) { return static_cast<int>(y * p - s.axis.firstKey); };
+        const long y0 = yearOf(first), yLast = yearOf(c.T - 1);
+        b.link(first, std::max(yearStart(y0), 0), std::min(yearStart(y0 + 1) - 1, c.T - 1),
+               b.weights(first, yearStart(y0), yearStart(y0 + 1) - 1), 1.0);
+        for (long y = y0 + 1; y <= yLast; ++y) {
+            const int from = yearStart(y), to = std::min(yearStart(y + 1) - 1, c.T - 1);
+            int linkAt = -1;
+            for (int t = from - 1; t >= 0 && linkAt < 0; --t)
+                if (hasValue(b.level()[t])) linkAt = t;
+            if (linkAt < 0) continue;
+            std::vector<double> w = b.weights(linkAt, yearStart(y - 1), from - 1);
+            if (std::accumulate(w.begin(), w.end(), 0.0) <= 0) {
+                w = b.weights(linkAt, linkAt, linkAt);
+                ++r.fallbackWeights;
+            }
+            b.link(linkAt, from, to, w, b.level()[linkAt]);
+        }
+    }
+    r.strataWeighted = b.weightedStrata();
+
+    r.table.axis = s.axis;
+    r.table.count = b.used();
+    const std::vector<double> none(c.T, kNoValue);
+    scaleToBase(r.table, b.level(), none, none, o);
+
+    const std::size_t used = std::accumulate(b.used().begin(), b.used().end(), std::size_t{0});
+    r.diag.drop(fmt::format("in a stratum-period with fewer than {} sales", o.minSales), thinRows);
+    r.diag.drop("in a stratum without a price in the reference period",
+                r.diag.rowsUsed - used - thinRows);
+    r.diag.rowsUsed = used;
+    std::size_t noValue = 0;
+    for (double v : r.table.index)
+        if (!hasValue(v)) ++noValue;
+    if (r.emptyCells)
+        r.diag.warn(fmt::format("{} stratum-period(s) without a price: {}", r.emptyCells,
+                                o.empty == EmptyStratumRule::Carry ? "last relative carried forward"
+                                                                   : "weights re-normalised"));
+    if (r.unpricedAtReference)
+        r.diag.warn(fmt::format("{} stratum weight(s) left out: no price in the reference period",
+                                r.unpricedAtReference));
+    if (r.fallbackWeights)
+        r.diag.warn(fmt::format("{} link(s) weighted by the link period (no sales the year before)",
+                                r.fallbackWeights));
+    if (noValue) r.diag.warn(fmt::format("{} period(s) without a value", noValue));
+    return r;
+}
+
+}  // namespace lintel
