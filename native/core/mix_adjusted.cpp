@@ -3,8 +3,11 @@
 #include <algorithm>
 #include <cctype>
 #include <cmath>
+#include <cstdint>
+#include <limits>
 #include <map>
 #include <numeric>
+#include <random>
 
 #include <fmt/format.h>
 
@@ -120,10 +123,66 @@ private:
     std::vector<char> weighted_;
 };
 
+// The level series (relative to the first reference period) for a fixed base or the yearly
+// chain; counters go to r.
+void buildLevels(MixBuilder& b, const Cells& c, const PeriodAxis& axis,
+                 const std::vector<double>& anyPrice, const MixOptions& o, MixResult& r) {
+    if (!o.chain) {
+        const int base = resolveBase(axis, anyPrice, o);
+        b.link(base, 0, c.T - 1, b.weights(base, base, base), 1.0);
+    } else {
+        const int p = periodsPerYear(o.freq);
+        auto yearOf = [&](int t) { return floorDiv(axis.firstKey + t, p); };
+        int first = -1;
+        for (int t = 0; t < c.T && first < 0; ++t)
+            if (hasValue(anyPrice[t])) first = t;
+        if (first < 0)
+            throw InputError(fmt::format("no stratum has {} or more sales in any period", o.minSales));
+        // Positions of each calendar year on the axis.
+        auto yearStart = [&](long y) { return static_cast<int>(y * p - axis.firstKey); };
+        const long y0 = yearOf(first), yLast = yearOf(c.T - 1);
+        b.link(first, std::max(yearStart(y0), 0), std::min(yearStart(y0 + 1) - 1, c.T - 1),
+               b.weights(first, yearStart(y0), yearStart(y0 + 1) - 1), 1.0);
+        for (long y = y0 + 1; y <= yLast; ++y) {
+            const int from = yearStart(y), to = std::min(yearStart(y + 1) - 1, c.T - 1);
+            int linkAt = -1;
+            for (int t = from - 1; t >= 0 && linkAt < 0; --t)
+                if (hasValue(b.level()[t])) linkAt = t;
+            if (linkAt < 0) continue;
+            std::vector<double> w = b.weights(linkAt, yearStart(y - 1), from - 1);
+            if (std::accumulate(w.begin(), w.end(), 0.0) <= 0) {
+                w = b.weights(linkAt, linkAt, linkAt);
+                ++r.fallbackWeights;
+            }
+            b.link(linkAt, from, to, w, b.level()[linkAt]);
+        }
+    }
+}
+
+// Unbiased draw from 0 .. n-1 (rejection of the top remainder), same on every platform.
+std::size_t draw(std::mt19937_64& g, std::size_t n) {
+    const std::uint64_t range = static_cast<std::uint64_t>(n);
+    const std::uint64_t limit = std::numeric_limits<std::uint64_t>::max() -
+                                std::numeric_limits<std::uint64_t>::max() % range;
+    std::uint64_t x;
+    do x = g(); while (x >= limit);
+    return static_cast<std::size_t>(x % range);
+}
+
+// Linear-interpolation quantile of sorted values (numpy's default, "linear").
+double quantile(const std::vector<double>& sorted, double p) {
+    const double h = (sorted.size() - 1) * p;
+    const std::size_t lo = static_cast<std::size_t>(std::floor(h));
+    const std::size_t hi = std::min(lo + 1, sorted.size() - 1);
+    return sorted[lo] + (h - lo) * (sorted[hi] - sorted[lo]);
+}
+
 }  // namespace
 
 MixResult indexMix(const MixInput& in, const MixOptions& o) {
     validateCommon(o);
+    if (o.bootstrap && (o.reps < 20 || o.reps > 10000))
+        throw InputError(fmt::format("reps must lie between 20 and 10000, got {}", o.reps));
     if (in.strata.empty()) throw InputError("strata needs at least one column");
     const std::size_t n = in.sales.date.size();
     for (std::size_t k = 0; k < in.strata.size(); ++k)
@@ -179,42 +238,48 @@ MixResult indexMix(const MixInput& in, const MixOptions& o) {
     }
 
     MixBuilder b(c, o, r);
-    if (!o.chain) {
-        const int base = resolveBase(s.axis, anyPrice, o);
-        b.link(base, 0, c.T - 1, b.weights(base, base, base), 1.0);
-    } else {
-        const int p = periodsPerYear(o.freq);
-        auto yearOf = [&](int t) { return floorDiv(s.axis.firstKey + t, p); };
-        int first = -1;
-        for (int t = 0; t < c.T && first < 0; ++t)
-            if (hasValue(anyPrice[t])) first = t;
-        if (first < 0)
-            throw InputError(fmt::format("no stratum has {} or more sales in any period", o.minSales));
-        // Positions of each calendar year on the axis.
-        auto yearStart = [&](long y) { return static_cast<int>(y * p - s.axis.firstKey); };
-        const long y0 = yearOf(first), yLast = yearOf(c.T - 1);
-        b.link(first, std::max(yearStart(y0), 0), std::min(yearStart(y0 + 1) - 1, c.T - 1),
-               b.weights(first, yearStart(y0), yearStart(y0 + 1) - 1), 1.0);
-        for (long y = y0 + 1; y <= yLast; ++y) {
-            const int from = yearStart(y), to = std::min(yearStart(y + 1) - 1, c.T - 1);
-            int linkAt = -1;
-            for (int t = from - 1; t >= 0 && linkAt < 0; --t)
-                if (hasValue(b.level()[t])) linkAt = t;
-            if (linkAt < 0) continue;
-            std::vector<double> w = b.weights(linkAt, yearStart(y - 1), from - 1);
-            if (std::accumulate(w.begin(), w.end(), 0.0) <= 0) {
-                w = b.weights(linkAt, linkAt, linkAt);
-                ++r.fallbackWeights;
-            }
-            b.link(linkAt, from, to, w, b.level()[linkAt]);
-        }
-    }
+    buildLevels(b, c, s.axis, anyPrice, o, r);
     r.strataWeighted = b.weightedStrata();
 
     r.table.axis = s.axis;
     r.table.count = b.used();
     const std::vector<double> none(c.T, kNoValue);
     scaleToBase(r.table, b.level(), none, none, o);
+
+    if (o.bootstrap) {
+        // Stratified bootstrap: redraw every cell's sales, rebuild the index, keep base = 100.
+        const int base = r.table.basePosition;
+        std::mt19937_64 gen(o.seed);
+        std::vector<std::vector<double>> reps(c.T);
+        Cells rc = c;
+        std::vector<double> sample;
+        for (int k = 0; k < o.reps; ++k) {
+            for (std::size_t cell = 0; cell < HT; ++cell) {
+                const auto& v = prices[cell];
+                if (v.empty()) continue;
+                sample.resize(v.size());
+                for (double& x : sample) x = v[draw(gen, v.size())];
+                rc.value[cell] = std::accumulate(sample.begin(), sample.end(), 0.0);
+                if (hasValue(c.price[cell]))
+                    rc.price[cell] = o.stat == MixStatistic::Median
+                                         ? stats::median(sample)
+                                         : rc.value[cell] / double(sample.size());
+            }
+            MixResult scratch;
+            MixBuilder rb(rc, o, scratch);
+            buildLevels(rb, rc, s.axis, anyPrice, o, scratch);
+            const double ref = rb.level()[base];
+            if (!hasValue(ref) || !(ref > 0)) continue;
+            for (int t = 0; t < c.T; ++t)
+                if (hasValue(rb.level()[t])) reps[t].push_back(100.0 * rb.level()[t] / ref);
+        }
+        for (int t = 0; t < c.T; ++t) {
+            if (!hasValue(r.table.index[t]) || reps[t].size() < 2) continue;
+            std::sort(reps[t].begin(), reps[t].end());
+            r.table.lower[t] = quantile(reps[t], (1 - o.level) / 2);
+            r.table.upper[t] = quantile(reps[t], (1 + o.level) / 2);
+        }
+    }
 
     const std::size_t used = std::accumulate(b.used().begin(), b.used().end(), std::size_t{0});
     r.diag.drop(fmt::format("in a stratum-period with fewer than {} sales", o.minSales), thinRows);

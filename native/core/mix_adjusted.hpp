@@ -27,8 +27,16 @@
 //     forward (for periods before a base set later in the series: the nearest later one).
 // A period in which no weighted stratum has a price has no value. Both are counted.
 //
-// Bands: none (kNoValue). A weighted sum of ratios of stratum medians has no closed-form
-// sampling distribution we would trust at small cell sizes; see docs/methods/analytics.md.
+// Bands: by default none (kNoValue): a weighted sum of ratios of stratum medians has no
+// closed-form sampling distribution we would trust at small cell sizes. Option
+// bands=bootstrap gives a stratified percentile bootstrap (Efron & Tibshirani, An
+// Introduction to the Bootstrap, 1993, ch. 13; resampling within strata as in their sec. 8.x
+// for stratified samples, from memory): each replicate redraws, with replacement, the sales
+// of every stratum-period cell (cell sizes kept), recomputes the whole index (weights, links,
+// base = 100), and the band is the (1 - level)/2 and (1 + level)/2 linear-interpolation
+// quantiles of the replicates (numpy's default quantile rule). The base period itself gets
+// the band [100, 100]; a cell with one sale contributes no variation, so thin cells make the
+// band too narrow. Deterministic: mt19937_64 with a fixed seed, unbiased bounded draws.
 #pragma once
 
 #include <string>
@@ -52,11 +60,14 @@ enum class EmptyStratumRule { Reweight, Carry };
 
 struct MixOptions : IndexOptions {
     // IndexOptions: freq (M), base (first period with a value), minsales (1) = fewest sales
-    // for a stratum to have a price in a period; level is unused (no bands).
+    // for a stratum to have a price in a period; level (0.95) = the bootstrap band's level.
     MixStatistic stat = MixStatistic::Median;   // stat: "median" (default) or "mean"
     MixWeights weights = MixWeights::Sales;     // weights: "sales" (default), "value", "all"
     bool chain = false;                         // chain: yearly re-weighting, chain-linked
     EmptyStratumRule empty = EmptyStratumRule::Reweight;  // empty: "reweight" (default), "carry"
+    bool bootstrap = false;       // bands: "none" (default) or "bootstrap"
+    int reps = 200;               // reps: bootstrap replicates, 20 .. 10000
+    unsigned long long seed = 1;  // seed: bootstrap random seed
 };
 
 struct MixResult : IndexResult {

@@ -223,4 +223,32 @@ BOOST_AUTO_TEST_CASE(mix_chain_link_falls_back_to_last_period_with_a_value) {
     BOOST_TEST(std::fabs(r.table.index[4] - 132) < 1e-12);
 }
 
+BOOST_AUTO_TEST_CASE(mix_bootstrap_bands) {
+    // Bands are off by default; bands=bootstrap fills them deterministically for a seed. In
+    // the monthly example March has one priced sale (B 1500) under reweight: its cell never
+    // varies, but its relative does through B's January median (1000, 1000: fixed too), so
+    // March's band is the single value 150. February varies (A 1 sale fixed; B 1100/1300
+    // redrawn: medians 1100, 1200, 1300), so its band is wider than a point.
+    MixOptions o;
+    o.bootstrap = true;
+    o.reps = 400;
+    const MixResult r = indexMix(monthlyExample(), o);
+    BOOST_TEST(r.table.lower[0] == 100.0);
+    BOOST_TEST(r.table.upper[0] == 100.0);
+    BOOST_TEST(std::fabs(r.table.lower[2] - 150) < 1e-12);
+    BOOST_TEST(std::fabs(r.table.upper[2] - 150) < 1e-12);
+    BOOST_TEST(r.table.lower[1] < r.table.index[1]);
+    BOOST_TEST(r.table.upper[1] >= r.table.index[1]);
+    // Feb replicates: 0.6 * 220/m_A(Jan) + 0.4 * m_B(Feb)/1000 with m_A(Jan) in {100..300}:
+    // the lowest possible value is 0.6 * 220/300 + 0.4 * 1.1 = 0.88, the highest
+    // 0.6 * 2.2 + 0.4 * 1.3 = 1.84.
+    BOOST_TEST(r.table.lower[1] >= 88.0 - 1e-9);
+    BOOST_TEST(r.table.upper[1] <= 184.0 + 1e-9);
+    const MixResult again = indexMix(monthlyExample(), o);
+    BOOST_TEST(again.table.lower[1] == r.table.lower[1]);
+    BOOST_TEST(again.table.upper[1] == r.table.upper[1]);
+    o.reps = 5;
+    BOOST_CHECK_THROW(indexMix(monthlyExample(), o), InputError);
+}
+
 BOOST_AUTO_TEST_SUITE_END()

@@ -1,6 +1,7 @@
 // refcli commands for the analytics area (mix-adjusted index and index-series measures).
 //   mix        <date, price[, include], strata columns> strata=a|b stat=median weights=sales
 //              chain=0 empty=reweight minsales=1 freq=M base=<serial>
+//              bands=none|bootstrap reps=200 seed=1 level=0.95
 //              -> period, index, sales, lower, upper
 //   hp         <y> freq=Q lambda=<default>              -> trend, cycle
 //   volatility <index> lag=1 annual=0 freq=M             -> volatility, changes
@@ -73,6 +74,10 @@ const refcli::Register regMix("mix", [](const refcli::Table& t, const refcli::Ar
     o.chain = refcli::number(a, "chain", 0) != 0;
     o.empty = refcli::text(a, "empty", "reweight") == "carry" ? EmptyStratumRule::Carry
                                                               : EmptyStratumRule::Reweight;
+    o.bootstrap = refcli::text(a, "bands", "none") == "bootstrap";
+    o.reps = static_cast<int>(refcli::number(a, "reps", 200));
+    o.seed = static_cast<unsigned long long>(refcli::number(a, "seed", 1));
+    o.level = refcli::number(a, "level", 0.95);
     const MixResult r = indexMix(in, o);
     report(r.diag);
     std::fprintf(stderr, "strata=%zu weighted=%zu links=%zu empty=%zu thin=%zu unpriced=%zu\n",

@@ -162,4 +162,42 @@ snr_mod = run_refcli(args.refcli, "snr", pd.DataFrame({"index": modelled}), freq
 checks.true("smooth modelled index scores a higher signal-to-noise ratio than the raw median",
             snr_mod > 10 * snr_raw, f"modelled {snr_mod:.3g}, raw median {snr_raw:.3g}")
 
+# Bootstrap bands (option bands=bootstrap): against a numpy implementation of the same
+# documented scheme with its own random numbers (numpy Generator, seed 7): redraw each
+# stratum-period cell's sales with replacement, recompute the quarterly fixed-base
+# sales-weighted index, take the 2.5 % and 97.5 % quantiles. Monte Carlo error of 1,000
+# replicates is a few per cent of the width, so the widths must agree within 25 % in every
+# quarter and within 8 % in the median over quarters.
+d = frame[np.isfinite(frame.price) & (frame.price > 0) & (frame.include == 1) & (frame.region != "")].copy()
+ts = pd.Timestamp("1899-12-30") + pd.to_timedelta(d.date.values, unit="D")
+d["q"] = pd.PeriodIndex(ts, freq="Q")
+d["stratum"] = d.region + "|" + d.type
+quarters = pd.period_range(d.q.min(), d.q.max(), freq="Q")
+strata = sorted(d.stratum.unique())
+cells = {(h, q): g.price.to_numpy() for (h, q), g in d.groupby(["stratum", "q"])}
+w = np.array([len(cells.get((h, quarters[0]), [])) for h in strata], dtype=float)
+brng = np.random.default_rng(7)
+B = 1000
+reps = np.empty((B, len(quarters)))
+for k in range(B):
+    m = np.full((len(strata), len(quarters)), np.nan)
+    for (h, q), v in cells.items():
+        m[strata.index(h), quarters.get_loc(q)] = np.median(v[brng.integers(0, len(v), len(v))])
+    rel = m / m[:, [0]]
+    present = np.isfinite(rel) & (w[:, None] > 0)
+    reps[k] = 100 * np.nansum(np.where(present, rel, 0) * w[:, None], axis=0) / (present * w[:, None]).sum(axis=0)
+lo_np, hi_np = np.quantile(reps, 0.025, axis=0), np.quantile(reps, 0.975, axis=0)
+got = run_refcli(args.refcli, "mix", frame, strata="region|type", freq="Q", bands="bootstrap", reps=B, seed=3)
+width, width_np = (got.upper - got.lower).to_numpy()[1:], (hi_np - lo_np)[1:]
+ratio = width / width_np
+checks.true("bootstrap band widths within 25 % of numpy's in every quarter", np.all(np.abs(ratio - 1) < 0.25),
+            f"ratios {np.round(ratio.min(), 3)} .. {np.round(ratio.max(), 3)}")
+checks.true("bootstrap band widths: median ratio within 8 %", abs(np.median(ratio) - 1) < 0.08, f"{np.median(ratio):.3f}")
+checks.close("bootstrap band centre near numpy's", ((got.upper + got.lower) / 2).to_numpy()[1:], ((hi_np + lo_np) / 2)[1:],
+             rel=0.01, source="numpy bootstrap of the same scheme")
+checks.true("bootstrap band contains the index; base band is [100, 100]",
+            np.all((got.lower <= got["index"] + 1e-9) & (got["index"] <= got.upper + 1e-9)) and got.lower[0] == 100 == got.upper[0])
+again = run_refcli(args.refcli, "mix", frame, strata="region|type", freq="Q", bands="bootstrap", reps=B, seed=3)
+checks.true("bootstrap is deterministic for a seed", again.lower.equals(got.lower) and again.upper.equals(got.upper))
+
 checks.finish()
