@@ -1,6 +1,7 @@
 #!/usr/bin/python3
-"""Builds the demo workbook: the invented market of market_model.py in a Sales sheet, and an
-Index sheet of ordinary Lintel formulas with a chart; saved as .ods and .pdf.
+"""Builds the demo workbook: the invented market of market_model.py in a Sales sheet, a
+report sheet laid out by Lintel's report builder (the same service the sidebar's "Build
+report" calls), and an Examples sheet of single formulas; saved as .ods and .pdf.
 
     build_demo.py --oxt build/lintel.oxt --profile out/profile --out out/demo
 """
@@ -14,22 +15,64 @@ sys.path.insert(0, os.path.join(HERE, "..", "scripts"))
 sys.path.insert(0, HERE)
 
 import uno  # noqa: E402
-from com.sun.star.awt import Rectangle  # noqa: E402
+from com.sun.star.beans import NamedValue  # noqa: E402
 
 from lintel_office import Office, prop  # noqa: E402
 import market_model  # noqa: E402
 
-CAUTION = ("Caution: an index describes a market, not one home. Time-adjusting a sale is no "
-           "substitute for an appraisal by a licensed professional; follow local appraisal "
-           "standards and regulations. All data in this workbook are invented.")
+# The methods the demo report shows (all that the add-in offers).
+METHODS = os.environ.get("LINTEL_DEMO_METHODS", "median|mean|mix|hedonic|repeat|refhome")
 
 
-def date_format(doc, pattern="YYYY-MM-DD"):
+def number_format(doc, pattern):
     from com.sun.star.lang import Locale
     formats = doc.NumberFormats
-    loc = Locale()
-    key = formats.queryKey(pattern, loc, False)
-    return key if key != -1 else formats.addNew(pattern, loc)
+    key = formats.queryKey(pattern, Locale(), False)
+    return key if key != -1 else formats.addNew(pattern, Locale())
+
+
+def report_settings(n_rows, segment=None):
+    lines = [f"data=Sales.A1:J{n_rows}", "date=date", "price=price", "id=property_id",
+             "changed=renovated", "characteristics=district|type|floor_area|lot|bedrooms|age",
+             "strata=district|type", "freq=M", "base=2015-01-01", "level=0.95", f"methods={METHODS}",
+             "options.hedonic=log=3,4", "options.refhome=log=3,4"]
+    if segment:
+        lines.append(segment)
+    return "\n".join(lines) + "\n"
+
+
+def examples_sheet(doc, n):
+    sheets = doc.Sheets
+    sheets.insertNewByName("Examples", sheets.Count)
+    ex = sheets.getByName("Examples")
+    d, p, dist = f"$Sales.$A$2:$A${n}", f"$Sales.$B$2:$B${n}", f"$Sales.$D$2:$D${n}"
+    typ = f"$Sales.$E$2:$E${n}"
+    ex.getCellRangeByName("A1").setString("Single Lintel formulas on the demo sales (invented data)")
+    ex.getCellRangeByName("A1").CharHeight = 14
+    ex.getCellRangeByName("A2").setString(
+        "Caution: an index describes a market, not one home. Time-adjusting a sale is no substitute "
+        "for an appraisal by a licensed professional; follow local appraisal standards and regulations.")
+    heads = [("A4", f"Quarterly median, all sales: =INDEXMEDIAN(...;;\"Q\";;\"titles=1\")"),
+             ("G4", "Rebased to 2020-Q1 = 100: =INDEXREBASE(A6:A49;B6:B49;DATE(2020;1;1))"),
+             ("I4", "Year-over-year %: =INDEXCHANGE(B6:B49;4)"),
+             ("K4", "Mean, Tallowick flats only (segment mask), quarterly")]
+    for ref, text in heads:
+        ex.getCellRangeByName(ref).setString(text)
+    ex.getCellRangeByName("A5:E49").setArrayFormula(f"=INDEXMEDIAN({d};{p};;\"Q\";;\"titles=1\")")
+    ex.getCellRangeByName("G5").setString("rebased")
+    ex.getCellRangeByName("G6:G49").setArrayFormula("=INDEXREBASE(A6:A49;B6:B49;DATE(2020;1;1))")
+    ex.getCellRangeByName("I5").setString("change %")
+    ex.getCellRangeByName("I6:I49").setArrayFormula("=INDEXCHANGE(B6:B49;4)")
+    ex.getCellRangeByName("K5:O49").setArrayFormula(
+        f"=INDEXMEAN({d};{p};({dist}=\"Tallowick\")*({typ}=\"flat\");\"Q\";;\"titles=1\")")
+    ex.getCellRangeByName("Q4").setString("Time adjustment with the quarterly median index")
+    ex.getCellRangeByName("Q5").setString("A sale of 412,000 on 2017-05-20, adjusted to 2025-12-31:")
+    ex.getCellRangeByName("Q6").setFormula("=PRICEADJUST(412000;DATE(2017;5;20);DATE(2025;12;31);A6:A49;B6:B49)")
+    for ref, fmt in (("A6:A49", "YYYY-\"Q\"Q"), ("K6:K49", "YYYY-\"Q\"Q"), ("B6:B49", "0.0"),
+                     ("D6:E49", "0.0"), ("C6:C49", "0"), ("G6:G49", "0.0"), ("I6:I49", "0.0"),
+                     ("L6:L49", "0.0"), ("M6:M49", "0"), ("N6:O49", "0.0"), ("Q6", "#,##0")):
+        ex.getCellRangeByName(ref).NumberFormat = number_format(doc, fmt)
+    ex.setPrintAreas((ex.getCellRangeByName("A1:R49").RangeAddress,))
 
 
 def build(office, out_dir):
@@ -41,65 +84,19 @@ def build(office, out_dir):
     s = sheets.getByName("Sales")
     rows = [tuple(sales.columns)] + [tuple(r) for r in sales.itertuples(index=False)]
     s.getCellRangeByName(f"A1:J{n}").setDataArray(rows)
-    s.getCellRangeByName(f"A2:A{n}").NumberFormat = date_format(doc)
-    s.setPrintAreas((s.getCellRangeByName("A1:J45").RangeAddress,))
-
-    sheets.insertNewByName("Index", 1)
-    ix = sheets.getByName("Index")
-    ix.getCellRangeByName("A1").setString("Demo market: price indexes (invented data)")
-    ix.getCellRangeByName("A1").CharHeight = 16
-    ix.getCellRangeByName("A2").setString(CAUTION)
-    labels = [("Frequency", "M"), ("Base date", None), ("Segment (mean index)", "Varnholt")]
-    for i, (k, v) in enumerate(labels):
-        ix.getCellByPosition(0, 3 + i).setString(k)
-    ix.getCellRangeByName("B4").setString("M")
-    ix.getCellRangeByName("B5").setFormula("=DATE(2015;1;1)")
-    ix.getCellRangeByName("B5").NumberFormat = date_format(doc)
-    ix.getCellRangeByName("B6").setString("Varnholt")
-    heads = ["Period", "Median index", "Sales", "Lower 95%", "Upper 95%", "",
-             "Period", "Mean index (segment)", "Sales"]
-    for c, h in enumerate(heads):
-        ix.getCellByPosition(c, 8).setString(h)
-    periods = 132
-    top, bottom = 10, 10 + periods - 1
-    d, p, dist = f"$Sales.$A$2:$A${n}", f"$Sales.$B$2:$B${n}", f"$Sales.$D$2:$D${n}"
-    # notes=1: the diagnostics (rows used, dropped by reason) follow below the table.
-    ix.getCellRangeByName(f"A{top}:E{bottom + 5}").setArrayFormula(
-        f"=INDEXMEDIAN({d};{p};;$B$4;$B$5;\"notes=1\")")
-    ix.getCellRangeByName(f"G{top}:I{bottom}").setArrayFormula(
-        f"=INDEXMEAN({d};{p};({dist}=$B$6);$B$4;$B$5)")
-    # Calc gives a formula result the format of the first date it references: set the
-    # number formats of the index tables explicitly.
-    for col in ("A", "G"):
-        ix.getCellRangeByName(f"{col}{top}:{col}{bottom}").NumberFormat = date_format(doc, "YYYY-MM")
-    for cols in ("B", "D", "E", "H"):
-        ix.getCellRangeByName(f"{cols}{top}:{cols}{bottom}").NumberFormat = date_format(doc, "0.0")
-    for cols in ("C", "I"):
-        ix.getCellRangeByName(f"{cols}{top}:{cols}{bottom}").NumberFormat = date_format(doc, "0")
-    ix.getCellRangeByName(f"B{bottom + 1}:B{bottom + 5}").NumberFormat = date_format(doc, "0")
-    page = doc.StyleFamilies.getByName("PageStyles").getByName(ix.PageStyle)
-    page.IsLandscape = True
-    w, h = page.Width, page.Height
-    if w < h:
-        page.Width, page.Height = h, w
+    s.getCellRangeByName(f"A2:A{n}").NumberFormat = number_format(doc, "YYYY-MM-DD")
+    s.setPrintAreas((s.getCellRangeByName("A1:J40").RangeAddress,))
+    page = doc.StyleFamilies.getByName("PageStyles").getByName(s.PageStyle)
     page.ScaleToPagesX = 1
     page.ScaleToPagesY = 0
-    doc.calculateAll()
 
-    rect = Rectangle()
-    rect.X, rect.Y, rect.Width, rect.Height = 1000, 1500, 24000, 11000
-    addr = [ix.getCellRangeByName(f"A9:B{bottom}").RangeAddress,
-            ix.getCellRangeByName(f"H9:H{bottom}").RangeAddress]
-    # Place the chart to the right of the tables.
-    anchor = ix.getCellRangeByName("N9")
-    rect.X = anchor.Position.X
-    rect.Y = anchor.Position.Y
-    ix.Charts.addNewByName("IndexChart", rect, tuple(addr), True, True)
-    chart = ix.Charts.getByName("IndexChart").EmbeddedObject
-    chart.setDiagram(chart.createInstance("com.sun.star.chart.LineDiagram"))
-    chart.HasMainTitle = True
-    chart.Title.String = "Median index (all sales) and mean index (Varnholt), 2015-01 = 100"
-    ix.setPrintAreas((ix.getCellRangeByName(f"A1:Z{bottom + 5}").RangeAddress,))
+    job = office.service("org.lintel.ReportBuilder")
+    status = job.execute((NamedValue("Document", doc), NamedValue("Settings", report_settings(n)),
+                          NamedValue("Mode", "build")))
+    print(status)
+    if status.startswith("Lintel:"):
+        raise SystemExit(f"report failed: {status}")
+    examples_sheet(doc, n)
     doc.calculateAll()
 
     tmp_ods = os.path.join(office.scratch, "lintel-demo.ods")

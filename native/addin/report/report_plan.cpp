@@ -1,0 +1,423 @@
+#include "report_plan.hpp"
+
+#include <algorithm>
+#include <climits>
+#include <cmath>
+
+#include <fmt/format.h>
+
+#include "diagnostics.hpp"
+#include "inputs.hpp"
+#include "periods.hpp"
+
+namespace lintel::report {
+
+using addin::Cell;
+using addin::CallContext;
+
+std::string columnName(int col) {
+    std::string s;
+    for (int c = col + 1; c > 0; c = (c - 1) / 26) s.insert(s.begin(), static_cast<char>('A' + (c - 1) % 26));
+    return s;
+}
+
+namespace {
+
+std::string quoteSheet(const std::string& sheet) {
+    bool plain = !sheet.empty() && !std::isdigit(static_cast<unsigned char>(sheet[0]));
+    for (char c : sheet) plain = plain && (std::isalnum(static_cast<unsigned char>(c)) || c == '_');
+    if (plain) return sheet;
+    std::string q = "'";
+    for (char c : sheet) q += c == '\'' ? std::string("''") : std::string(1, c);
+    return q + "'";
+}
+
+std::string cellRef(int row, int col) { return fmt::format("${}${}", columnName(col), row + 1); }
+
+std::string localRange(int row0, int col0, int row1, int col1) {
+    return fmt::format("{}:{}", cellRef(row0, col0), cellRef(row1, col1));
+}
+
+std::string formulaText(const std::string& s) {  // a Calc string literal
+    std::string q = "\"";
+    for (char c : s) q += c == '"' ? std::string("\"\"") : std::string(1, c);
+    return q + "\"";
+}
+
+struct Layout {
+    // Settings block (column A labels, column B values).
+    static constexpr int kSettingsRow = 3;
+    // Charts, then the tables.
+    static constexpr int kChartRow = 14;
+    static constexpr int kChartRowStep = 18;
+    static constexpr int kTableTitleRow = 70;
+    static constexpr int kTableHeadRow = 71;
+    static constexpr int kTableFirstRow = 72;
+};
+
+class Planner {
+public:
+    Planner(const ReportSettings& s, const SheetData& d) : s_(s), d_(d) {}
+
+    ReportPlan run();
+
+private:
+    int column(const std::string& name, const char* role, bool required) const;
+    std::string dataColumn(int c) const {
+        const int r0 = d_.firstRow + 1, r1 = d_.firstRow + static_cast<int>(d_.cells.rows) - 1;
+        return absoluteRange(d_.sheet, r0, d_.firstCol + c, r1, d_.firstCol + c);
+    }
+    // A block of data columns as one range: direct when contiguous, else copied by formula
+    // into a helper block of the report sheet.
+    std::string columnsBlock(const std::vector<int>& cols, const std::string& what);
+    std::string includeExpression();
+    void countSegment();
+
+    void text(int r, int c, const std::string& t, bool bold = false, double height = 0) {
+        CellWrite w;
+        w.kind = CellWrite::Kind::Text;
+        w.row = r; w.col = c; w.value = t; w.bold = bold; w.charHeight = height;
+        plan_.cells.push_back(w);
+    }
+    void number(int r, int c, double x, const std::string& format = {}) {
+        CellWrite w;
+        w.kind = CellWrite::Kind::Number;
+        w.row = r; w.col = c; w.number = x; w.format = format;
+        plan_.cells.push_back(w);
+    }
+    void formula(int r, int c, const std::string& f, const std::string& format = {}) {
+        CellWrite w;
+        w.kind = CellWrite::Kind::Formula;
+        w.row = r; w.col = c; w.value = f; w.format = format;
+        plan_.cells.push_back(w);
+    }
+    void array(int r, int c, int rows, int cols, const std::string& f) {
+        CellWrite w;
+        w.kind = CellWrite::Kind::ArrayFormula;
+        w.row = r; w.col = c; w.rows = rows; w.cols = cols; w.value = f;
+        plan_.cells.push_back(w);
+    }
+    void format(int r, int c, int rows, int cols, const std::string& f) {
+        CellWrite w;
+        w.kind = CellWrite::Kind::Format;
+        w.row = r; w.col = c; w.rows = rows; w.cols = cols; w.format = f;
+        plan_.cells.push_back(w);
+    }
+
+    const ReportSettings& s_;
+    const SheetData& d_;
+    ReportPlan plan_;
+    Frequency freq_ = Frequency::Month;
+    long firstKey_ = 0;
+    int helperCol_ = 0;
+    int helperUsed_ = 0;
+};
+
+int Planner::column(const std::string& name, const char* role, bool required) const {
+    if (name.empty()) {
+        if (required) throw InputError(fmt::format("choose the {} column", role));
+        return -1;
+    }
+    for (std::size_t c = 0; c < d_.cells.cols; ++c)
+        if (addin::cellKey(d_.cells.at(0, c)) == name) return static_cast<int>(c);
+    throw InputError(fmt::format("the {} column \"{}\" is not in the header of {}", role, name,
+                                 s_.dataRange));
+}
+
+std::string Planner::columnsBlock(const std::vector<int>& cols, const std::string& what) {
+    bool contiguous = true;
+    for (std::size_t i = 1; i < cols.size(); ++i) contiguous = contiguous && cols[i] == cols[i - 1] + 1;
+    const int r0 = d_.firstRow + 1, r1 = d_.firstRow + static_cast<int>(d_.cells.rows) - 1;
+    if (contiguous)
+        return absoluteRange(d_.sheet, r0, d_.firstCol + cols.front(), r1, d_.firstCol + cols.back());
+    // Helper block: one array formula per column, so the block is contiguous.
+    const int n = static_cast<int>(d_.cells.rows) - 1;
+    const int c0 = helperCol_ + helperUsed_;
+    text(Layout::kTableTitleRow, c0, fmt::format("{} (copied by formula into one block)", what), true);
+    for (std::size_t i = 0; i < cols.size(); ++i) {
+        text(Layout::kTableHeadRow, c0 + static_cast<int>(i), addin::cellKey(d_.cells.at(0, cols[i])), true);
+        array(Layout::kTableFirstRow, c0 + static_cast<int>(i), n, 1, "=" + dataColumn(cols[i]));
+    }
+    helperUsed_ += static_cast<int>(cols.size()) + 1;
+    return localRange(Layout::kTableFirstRow, c0, Layout::kTableFirstRow + n - 1,
+                      c0 + static_cast<int>(cols.size()) - 1);
+}
+
+std::string Planner::includeExpression() {
+    std::string expr;
+    for (const auto& f : s_.segment) {
+        if (f.values.empty()) continue;
+        const int c = column(f.column, "segment", true);
+        bool numeric = false;
+        for (std::size_t r = 1; r < d_.cells.rows; ++r) {
+            const Cell& cell = d_.cells.at(r, c);
+            if (!cell.isEmpty()) { numeric = cell.isNumber(); break; }
+        }
+        const std::string col = dataColumn(c);
+        auto lit = [&](const std::string& v) { return numeric ? v : formulaText(v); };
+        std::string term;
+        if (f.values.size() == 1) {
+            term = fmt::format("({}={})", col, lit(f.values[0]));
+        } else {
+            std::string sum;
+            for (const auto& v : f.values) sum += (sum.empty() ? "" : "+") + fmt::format("({}={})", col, lit(v));
+            term = "((" + sum + ")>0)";
+        }
+        expr += (expr.empty() ? "" : "*") + term;
+    }
+    return expr;
+}
+
+void Planner::countSegment() {
+    const int dc = column(s_.dateColumn, "sale date", true);
+    const int pc = column(s_.priceColumn, "price", true);
+    std::vector<std::pair<int, const SegmentFilter*>> seg;
+    for (const auto& f : s_.segment)
+        if (!f.values.empty()) seg.emplace_back(column(f.column, "segment", true), &f);
+    long lo = LONG_MAX, hi = LONG_MIN;
+    CallContext ctx;
+    for (std::size_t r = 1; r < d_.cells.rows; ++r) {
+        const double date = addin::cellDate(d_.cells.at(r, dc), ctx);
+        const double price = addin::cellNumber(d_.cells.at(r, pc));
+        if (!isUsableSerial(date) || !(price > 0)) continue;
+        bool keep = true;
+        for (const auto& [c, f] : seg) {
+            const std::string v = addin::cellKey(d_.cells.at(r, c));
+            keep = keep && std::find(f->values.begin(), f->values.end(), v) != f->values.end();
+        }
+        if (!keep) continue;
+        ++plan_.salesUsed;
+        const long k = periodKey(date, freq_);
+        lo = std::min(lo, k);
+        hi = std::max(hi, k);
+    }
+    if (plan_.salesUsed == 0)
+        throw InputError(fmt::format("the segment ({}) keeps no sale with a date and a price",
+                                     s_.segmentText()));
+    firstKey_ = lo;
+    plan_.periods = static_cast<int>(hi - lo + 1);
+}
+
+ReportPlan Planner::run() {
+    if (d_.cells.rows < 2) throw InputError("the sales table needs a header row and at least one sale");
+    const auto f = parseFrequency(s_.freq);
+    if (!f) throw InputError(fmt::format("frequency must be M, Q or Y, got \"{}\"", s_.freq));
+    freq_ = *f;
+    countSegment();
+    const int T = plan_.periods;
+    plan_.sheetName = s_.sheetName.empty() ? s_.defaultSheetName() : s_.sheetName;
+
+    std::vector<Method> methods;
+    const int idc = column(s_.idColumn, "property id", false);
+    const int chc = column(s_.changedColumn, "changed flag", false);
+    std::vector<int> chars, strata;
+    for (const auto& n : s_.characteristics) chars.push_back(column(n, "characteristic", true));
+    for (const auto& n : s_.strata) strata.push_back(column(n, "stratum", true));
+    for (Method m : s_.methods) {
+        const bool ok = (m == Method::Mix && !strata.empty()) ||
+                        ((m == Method::Hedonic || m == Method::ReferenceHome) && !chars.empty()) ||
+                        (m == Method::RepeatSales && idc >= 0) ||
+                        m == Method::Median || m == Method::Mean;
+        if (ok) methods.push_back(m);
+        else plan_.warnings.push_back(fmt::format("{} left out: choose the columns it needs", methodLabel(m)));
+    }
+    if (methods.empty()) throw InputError("choose at least one method");
+    std::vector<Method> indexMethods;  // those on the index scale (not the reference home's value)
+    for (Method m : methods)
+        if (m != Method::ReferenceHome) indexMethods.push_back(m);
+
+    const int M = static_cast<int>(methods.size());
+    const int blockCol = 6 * M;  // chart data block after the method tables
+    const int K = static_cast<int>(indexMethods.size());
+    helperCol_ = blockCol + 4 * (K + 1) + 8;
+
+    // Title, caution.
+    const std::string range = fmt::format("{} .. {}", periodLabel(firstKey_, freq_),
+                                          periodLabel(firstKey_ + T - 1, freq_));
+    text(0, 0, fmt::format("Price indexes: {} ({})", s_.segmentText(), range), true, 16);
+    text(1, 0, "Caution: an index describes a market, not one home. Time-adjusting a sale is no "
+               "substitute for an appraisal by a licensed professional; follow local appraisal "
+               "standards and regulations.");
+
+    // Settings block.
+    const int sr = Layout::kSettingsRow;
+    text(sr, 0, "Settings", true);
+    const std::string dates = dataColumn(column(s_.dateColumn, "sale date", true));
+    const std::string prices = dataColumn(column(s_.priceColumn, "price", true));
+    const std::string include = includeExpression();
+    const int rowFreq = sr + 4, rowBase = sr + 5, rowLevel = sr + 6;
+    text(sr + 1, 0, "Sales data"); text(sr + 1, 1, s_.dataRange);
+    text(sr + 2, 0, "Segment"); text(sr + 2, 1, s_.segmentText());
+    text(sr + 3, 0, "Include expression"); text(sr + 3, 1, include.empty() ? "(all sales)" : include);
+    text(rowFreq, 0, "Frequency"); text(rowFreq, 1, frequencyCode(freq_));
+    text(rowBase, 0, "Base date");
+    double base = periodStartOfKey(firstKey_, freq_);
+    if (!s_.baseDate.empty()) {
+        const double b = addin::cellDate(Cell::str(s_.baseDate), {});
+        if (!isUsableSerial(b)) throw InputError(fmt::format("base date \"{}\" is not a date (use YYYY-MM-DD)", s_.baseDate));
+        base = b;
+    }
+    number(rowBase, 1, base, "YYYY-MM-DD");
+    text(rowLevel, 0, "Band level"); number(rowLevel, 1, s_.level, "0%");
+    text(sr + 7, 0, "Sales used");
+    text(sr + 8, 0, "Built with"); text(sr + 8, 1, "Lintel (report from the Lintel sidebar; Update report rebuilds it)");
+
+    const std::string freqRef = cellRef(rowFreq, 1), baseRef = cellRef(rowBase, 1);
+    std::string charsBlock, strataBlock, idRange, changedRange;
+    if (!chars.empty()) charsBlock = columnsBlock(chars, "Characteristics");
+    if (!strata.empty()) strataBlock = columnsBlock(strata, "Strata");
+    if (idc >= 0) idRange = dataColumn(idc);
+    if (chc >= 0) changedRange = dataColumn(chc);
+
+    // Method tables.
+    const int first = Layout::kTableFirstRow;
+    const int last = first + T - 1;
+    text(Layout::kTableTitleRow - 1, 0, "Index tables (array formulas; base period = 100)", true);
+    std::vector<int> tableCol(M);
+    for (int i = 0; i < M; ++i) {
+        const Method m = methods[i];
+        const int c = 6 * i;
+        tableCol[i] = c;
+        std::string opts = "\"level=\"&" + cellRef(rowLevel, 1);
+        auto adv = s_.advanced.find(methodKey(m));
+        if (adv != s_.advanced.end() && !adv->second.empty())
+            opts += "&" + formulaText("; " + adv->second);
+        std::string call;
+        switch (m) {
+            case Method::Median: call = fmt::format("INDEXMEDIAN({};{};{};{};{};{})", dates, prices, include, freqRef, baseRef, opts); break;
+            case Method::Mean: call = fmt::format("INDEXMEAN({};{};{};{};{};{})", dates, prices, include, freqRef, baseRef, opts); break;
+            case Method::Mix: call = fmt::format("INDEXMIX({};{};{};{};{};{};{})", dates, prices, strataBlock, include, freqRef, baseRef, opts); break;
+            case Method::Hedonic: call = fmt::format("INDEXHEDONIC({};{};{};{};{};{};{})", dates, prices, charsBlock, include, freqRef, baseRef, opts); break;
+            case Method::RepeatSales: call = fmt::format("CHAINRS({};{};{};{};{};{};{};{})", idRange, dates, prices, changedRange, include, freqRef, baseRef, opts); break;
+            case Method::ReferenceHome: call = fmt::format("REFHOMEVALUE({};{};{};;{};{};{};{})", dates, prices, charsBlock, include, freqRef, baseRef, opts); break;
+        }
+        text(Layout::kTableTitleRow, c, methodLabel(m), true);
+        const bool home = m == Method::ReferenceHome;
+        const std::vector<std::string> heads =
+            home ? std::vector<std::string>{"Period", "Value", "Lower", "Upper"}
+                 : std::vector<std::string>{"Period", "Index", m == Method::RepeatSales ? "Pairs" : "Sales", "Lower", "Upper"};
+        for (std::size_t h = 0; h < heads.size(); ++h) text(Layout::kTableHeadRow, c + static_cast<int>(h), heads[h], true);
+        const int width = static_cast<int>(heads.size());
+        array(first, c, T, width, "=" + call);
+        format(first, c, T, 1, "YYYY-MM");
+        if (home) {
+            format(first, c + 1, T, 3, "#,##0");
+        } else {
+            format(first, c + 1, T, 1, "0.0");
+            format(first, c + 2, T, 1, "0");
+            format(first, c + 3, T, 2, "0.0");
+        }
+        if (i == 0 && !home)
+            formula(sr + 7, 1, fmt::format("=SUM({})", localRange(first, c + 2, last, c + 2)), "0");
+    }
+
+    // Chart data: the methods lined up by period (IFERROR leaves "" = a gap in the chart).
+    const int bc = blockCol;
+    text(Layout::kTableTitleRow - 1, bc, "Chart data (methods lined up by period)", true);
+    const int lag = periodsPerYear(freq_);
+    struct Block { int col; const char* title; };
+    const std::vector<Block> blocks = {{bc, "Index level"},
+                                       {bc + (K + 2), "Change over a year (%)"},
+                                       {bc + 2 * (K + 2), "Change over one period (%)"}};
+    for (const auto& b : blocks) {
+        text(Layout::kTableTitleRow, b.col, b.title, true);
+        text(Layout::kTableHeadRow, b.col, "Period", true);
+        for (int t = 0; t < T; ++t) number(first + t, b.col, periodStartOfKey(firstKey_ + t, freq_));
+        format(first, b.col, T, 1, "YYYY-MM");
+    }
+    for (int k = 0; k < K; ++k) {
+        const Method m = indexMethods[k];
+        const int tc = tableCol[std::find(methods.begin(), methods.end(), m) - methods.begin()];
+        const int lc = bc + 1 + k;
+        for (const auto& b : blocks) text(Layout::kTableHeadRow, b.col + 1 + k, methodLabel(m), true);
+        const std::string periodsCol = localRange(first, tc, last, tc);
+        const std::string indexCol = localRange(first, tc + 1, last, tc + 1);
+        for (int t = 0; t < T; ++t)
+            formula(first + t, lc,
+                    fmt::format("=IFERROR(INDEX({};MATCH({};{};0));\"\")", indexCol,
+                                cellRef(first + t, bc), periodsCol));
+        format(first, lc, T, 1, "0.0");
+        const std::string levels = localRange(first, lc, last, lc);
+        array(first, blocks[1].col + 1 + k, T, 1, fmt::format("=INDEXCHANGE({};{})", levels, lag));
+        array(first, blocks[2].col + 1 + k, T, 1, fmt::format("=INDEXCHANGE({};1)", levels));
+        format(first, blocks[1].col + 1 + k, T, 1, "0.0");
+        format(first, blocks[2].col + 1 + k, T, 1, "0.0");
+    }
+    // Sales per period, from the first raw table.
+    const int salesBlock = bc + 3 * (K + 2);
+    text(Layout::kTableTitleRow, salesBlock, "Sales per period", true);
+    text(Layout::kTableHeadRow, salesBlock, "Period", true);
+    text(Layout::kTableHeadRow, salesBlock + 1, "Sales", true);
+    for (int t = 0; t < T; ++t) {
+        number(first + t, salesBlock, periodStartOfKey(firstKey_ + t, freq_));
+        formula(first + t, salesBlock + 1,
+                fmt::format("=IFERROR(INDEX({};MATCH({};{};0));0)", localRange(first, tableCol[0] + 2, last, tableCol[0] + 2),
+                            cellRef(first + t, salesBlock), localRange(first, tableCol[0], last, tableCol[0])));
+    }
+    format(first, salesBlock, T, 1, "YYYY-MM");
+    format(first, salesBlock + 1, T, 1, "0");
+
+    // Comparison table: one row per index method.
+    const int cr = Layout::kSettingsRow, cc = 3;
+    text(cr, cc, "Comparison (INDEXCOMPARE over the chart data; latest period changes)", true);
+    if (K > 0) {
+        const std::string levelsWithNames = localRange(Layout::kTableHeadRow, bc + 1, last, bc + K);
+        const int compareCols = 7;
+        array(cr + 1, cc, K + 1, compareCols,
+              fmt::format("=INDEXCOMPARE({};{};\"header=1; titles=1\")", levelsWithNames, freqRef));
+        text(cr + 1, cc + compareCols, "Latest period (%)", true);
+        text(cr + 1, cc + compareCols + 1, fmt::format("Over {} periods (%)", lag), true);
+        for (int k = 0; k < K; ++k) {
+            const std::string pop = localRange(first, blocks[2].col + 1 + k, last, blocks[2].col + 1 + k);
+            const std::string yoy = localRange(first, blocks[1].col + 1 + k, last, blocks[1].col + 1 + k);
+            formula(cr + 2 + k, cc + compareCols, fmt::format("=INDEX({};ROWS({}))", pop, pop), "0.0");
+            formula(cr + 2 + k, cc + compareCols + 1, fmt::format("=INDEX({};ROWS({}))", yoy, yoy), "0.0");
+        }
+        format(cr + 2, cc + 1, K, compareCols - 1, "0.00");
+    }
+
+    // Charts: 3 rows of 2, each reading one contiguous block.
+    auto chart = [&](const std::string& name, const std::string& title, ChartSpec::Type type,
+                     int row, int col, int rows, int cols, int slot) {
+        ChartSpec c;
+        c.name = name; c.title = title; c.type = type;
+        c.row = row; c.col = col; c.rows = rows; c.cols = cols;
+        c.anchorRow = Layout::kChartRow + (slot / 2) * Layout::kChartRowStep;
+        c.anchorCol = (slot % 2) * 8;
+        plan_.charts.push_back(c);
+    };
+    if (K > 0) {
+        chart("LintelLevels", "Index levels (base period = 100)", ChartSpec::Type::Line,
+              Layout::kTableHeadRow, bc, T + 1, K + 1, 0);
+        chart("LintelYearChange", "Change over a year (%)", ChartSpec::Type::Line,
+              Layout::kTableHeadRow, blocks[1].col, T + 1, K + 1, 1);
+        chart("LintelPeriodChange", "Change over one period (%)", ChartSpec::Type::Line,
+              Layout::kTableHeadRow, blocks[2].col, T + 1, K + 1, 2);
+        // Signal-to-noise per method: the comparison table's name and signal-to-noise columns.
+        chart("LintelSignalNoise", "Signal-to-noise ratio per method (higher = smoother)", ChartSpec::Type::Bar,
+              cr + 1, cc, K + 1, 3, 3);
+    }
+    chart("LintelSales", "Sales per period", ChartSpec::Type::Bar, Layout::kTableHeadRow, salesBlock,
+          T + 1, 2, 4);
+
+    plan_.printRows = last + 1;
+    plan_.printCols = 16;
+    plan_.status = fmt::format("{}: {} sales, {} periods ({}){}", plan_.sheetName, plan_.salesUsed, T,
+                               range,
+                               plan_.warnings.empty() ? "" : fmt::format(", {} warning(s)", plan_.warnings.size()));
+    for (std::size_t i = 0; i < plan_.warnings.size(); ++i)
+        text(sr + 9 + static_cast<int>(i), 0, "Warning: " + plan_.warnings[i]);
+    return plan_;
+}
+
+}  // namespace
+
+std::string absoluteRange(const std::string& sheet, int row0, int col0, int row1, int col1) {
+    return fmt::format("${}.{}:{}", quoteSheet(sheet), cellRef(row0, col0), cellRef(row1, col1));
+}
+
+ReportPlan planReport(const ReportSettings& settings, const SheetData& data) {
+    return Planner(settings, data).run();
+}
+
+}  // namespace lintel::report

@@ -1,0 +1,389 @@
+// org.lintel.ReportBuilder: builds or updates a report sheet from report settings. Callable
+// from the sidebar panel, from a macro or from a script as a com.sun.star.task.XJob:
+//   execute([Document=<spreadsheet model>, Settings=<settings text>, Mode="build"|"update",
+//            Sheet=<report sheet for update>]) -> status text ("Lintel: ..." on failure)
+// The layout itself is planned without UNO (report/report_plan.cpp); this file reads the
+// sales table, applies the plan, makes the charts and keeps the settings in the document.
+#include "report_builder.hpp"
+
+#include <cppuhelper/implbase2.hxx>
+#include <cppuhelper/supportsservice.hxx>
+
+#include <com/sun/star/awt/FontWeight.hpp>
+#include <com/sun/star/awt/Point.hpp>
+#include <com/sun/star/awt/Rectangle.hpp>
+#include <com/sun/star/beans/NamedValue.hpp>
+#include <com/sun/star/beans/PropertyAttribute.hpp>
+#include <com/sun/star/beans/XPropertyContainer.hpp>
+#include <com/sun/star/beans/XPropertySet.hpp>
+#include <com/sun/star/chart/XChartDocument.hpp>
+#include <com/sun/star/chart/XDiagram.hpp>
+#include <com/sun/star/container/XIndexAccess.hpp>
+#include <com/sun/star/container/XNamed.hpp>
+#include <com/sun/star/document/XDocumentProperties.hpp>
+#include <com/sun/star/document/XDocumentPropertiesSupplier.hpp>
+#include <com/sun/star/document/XEmbeddedObjectSupplier.hpp>
+#include <com/sun/star/frame/Desktop.hpp>
+#include <com/sun/star/frame/XController.hpp>
+#include <com/sun/star/frame/XDesktop2.hpp>
+#include <com/sun/star/frame/XFrame.hpp>
+#include <com/sun/star/frame/XModel.hpp>
+#include <com/sun/star/lang/Locale.hpp>
+#include <com/sun/star/lang/XMultiServiceFactory.hpp>
+#include <com/sun/star/lang/XServiceInfo.hpp>
+#include <com/sun/star/sheet/XArrayFormulaRange.hpp>
+#include <com/sun/star/sheet/XCalculatable.hpp>
+#include <com/sun/star/sheet/XCellRangeAddressable.hpp>
+#include <com/sun/star/sheet/XCellRangeData.hpp>
+#include <com/sun/star/sheet/XSheetCellCursor.hpp>
+#include <com/sun/star/sheet/XSheetCellRange.hpp>
+#include <com/sun/star/sheet/XSpreadsheet.hpp>
+#include <com/sun/star/sheet/XSpreadsheetDocument.hpp>
+#include <com/sun/star/sheet/XSpreadsheetView.hpp>
+#include <com/sun/star/sheet/XSpreadsheets.hpp>
+#include <com/sun/star/sheet/XPrintAreas.hpp>
+#include <com/sun/star/style/XStyleFamiliesSupplier.hpp>
+#include <com/sun/star/container/XNameContainer.hpp>
+#include <com/sun/star/table/CellRangeAddress.hpp>
+#include <com/sun/star/table/XCell.hpp>
+#include <com/sun/star/table/XColumnRowRange.hpp>
+#include <com/sun/star/table/XCellRange.hpp>
+#include <com/sun/star/table/XTableCharts.hpp>
+#include <com/sun/star/table/XTableChartsSupplier.hpp>
+#include <com/sun/star/task/XJob.hpp>
+#include <com/sun/star/task/XStatusIndicator.hpp>
+#include <com/sun/star/task/XStatusIndicatorFactory.hpp>
+#include <com/sun/star/text/XText.hpp>
+#include <com/sun/star/uno/XComponentContext.hpp>
+#include <com/sun/star/util/XNumberFormats.hpp>
+#include <com/sun/star/util/XNumberFormatsSupplier.hpp>
+
+#include <map>
+
+#include <fmt/format.h>
+
+#include "diagnostics.hpp"
+#include "report_plan.hpp"
+#include "uno_cells.hpp"
+
+namespace css = com::sun::star;
+using css::uno::Any;
+using css::uno::Reference;
+using css::uno::Sequence;
+using css::uno::UNO_QUERY;
+using css::uno::UNO_QUERY_THROW;
+
+namespace lintel::addin {
+
+namespace {
+
+const char* kPropertyPrefix = "Lintel report: ";
+
+// "Sales.A1:J100" or "$Sales.$A$1:$J$100" or "'My sales'.A1:J100" -> sheet and range.
+std::pair<std::string, std::string> splitRange(const std::string& text) {
+    std::string t;
+    for (char c : text)
+        if (c != '$') t += c;
+    const auto dot = t.rfind('.');
+    if (dot == std::string::npos || dot == 0)
+        throw InputError(fmt::format("sales data \"{}\" must name a sheet and a range, e.g. Sales.A1:J5000", text));
+    std::string sheet = t.substr(0, dot);
+    if (sheet.size() >= 2 && sheet.front() == '\'' && sheet.back() == '\'') sheet = sheet.substr(1, sheet.size() - 2);
+    return {sheet, t.substr(dot + 1)};
+}
+
+class Applier {
+public:
+    explicit Applier(const Reference<css::sheet::XSpreadsheetDocument>& doc) : doc_(doc) {
+        Reference<css::util::XNumberFormatsSupplier> nfs(doc, UNO_QUERY_THROW);
+        formats_ = nfs->getNumberFormats();
+    }
+
+    sal_Int32 formatKey(const std::string& code) {
+        auto it = keys_.find(code);
+        if (it != keys_.end()) return it->second;
+        css::lang::Locale loc;
+        sal_Int32 k = formats_->queryKey(ustr(code), loc, false);
+        if (k == -1) k = formats_->addNew(ustr(code), loc);
+        keys_[code] = k;
+        return k;
+    }
+
+    void apply(const Reference<css::sheet::XSpreadsheet>& sheet, const report::CellWrite& w) {
+        using Kind = report::CellWrite::Kind;
+        Reference<css::table::XCellRange> range =
+            sheet->getCellRangeByPosition(w.col, w.row, w.col + w.cols - 1, w.row + w.rows - 1);
+        switch (w.kind) {
+            case Kind::Text: {
+                Reference<css::text::XText> text(range->getCellByPosition(0, 0), UNO_QUERY_THROW);
+                text->setString(ustr(w.value));
+                break;
+            }
+            case Kind::Number: range->getCellByPosition(0, 0)->setValue(w.number); break;
+            case Kind::Formula: range->getCellByPosition(0, 0)->setFormula(ustr(w.value)); break;
+            case Kind::ArrayFormula: {
+                Reference<css::sheet::XArrayFormulaRange> af(range, UNO_QUERY_THROW);
+                af->setArrayFormula(ustr(w.value));
+                break;
+            }
+            case Kind::Format: break;
+        }
+        Reference<css::beans::XPropertySet> props(range, UNO_QUERY_THROW);
+        if (!w.format.empty()) props->setPropertyValue("NumberFormat", Any(formatKey(w.format)));
+        if (w.bold) props->setPropertyValue("CharWeight", Any(css::awt::FontWeight::BOLD));
+        if (w.charHeight > 0) props->setPropertyValue("CharHeight", Any(static_cast<float>(w.charHeight)));
+    }
+
+    void chart(const Reference<css::sheet::XSpreadsheet>& sheet, sal_Int16 sheetIndex,
+               const report::ChartSpec& c) {
+        Reference<css::table::XTableChartsSupplier> tcs(sheet, UNO_QUERY_THROW);
+        Reference<css::table::XTableCharts> charts = tcs->getCharts();
+        const OUString name = ustr(c.name);
+        if (charts->hasByName(name)) charts->removeByName(name);
+        Reference<css::beans::XPropertySet> anchor(sheet->getCellByPosition(c.anchorCol, c.anchorRow), UNO_QUERY_THROW);
+        css::awt::Point pos;
+        anchor->getPropertyValue("Position") >>= pos;
+        css::awt::Rectangle rect(pos.X, pos.Y, c.widthMm * 100, c.heightMm * 100);
+        css::table::CellRangeAddress addr(sheetIndex, c.col, c.row, c.col + c.cols - 1, c.row + c.rows - 1);
+        Sequence<css::table::CellRangeAddress> ranges(1);
+        ranges.getArray()[0] = addr;
+        charts->addNewByName(name, rect, ranges, true, true);
+        Reference<css::document::XEmbeddedObjectSupplier> eos(charts->getByName(name), UNO_QUERY_THROW);
+        Reference<css::chart::XChartDocument> chart(eos->getEmbeddedObject(), UNO_QUERY_THROW);
+        Reference<css::lang::XMultiServiceFactory> factory(chart, UNO_QUERY_THROW);
+        const char* kind = c.type == report::ChartSpec::Type::Bar ? "com.sun.star.chart.BarDiagram"
+                                                                  : "com.sun.star.chart.LineDiagram";
+        chart->setDiagram(Reference<css::chart::XDiagram>(factory->createInstance(OUString::createFromAscii(kind)), UNO_QUERY_THROW));
+        Reference<css::beans::XPropertySet> cp(chart, UNO_QUERY_THROW);
+        cp->setPropertyValue("HasMainTitle", Any(true));
+        Reference<css::beans::XPropertySet> title(chart->getTitle(), UNO_QUERY_THROW);
+        title->setPropertyValue("String", Any(ustr(c.title)));
+        title->setPropertyValue("CharHeight", Any(static_cast<float>(11)));
+        // A legend names the methods; a chart of one series needs none.
+        cp->setPropertyValue("HasLegend", Any(c.cols > 2 || (c.type == report::ChartSpec::Type::Line && c.cols > 1)));
+    }
+
+private:
+    Reference<css::sheet::XSpreadsheetDocument> doc_;
+    Reference<css::util::XNumberFormats> formats_;
+    std::map<std::string, sal_Int32> keys_;
+};
+
+report::SheetData readSales(const Reference<css::sheet::XSpreadsheetDocument>& doc,
+                            const std::string& dataRange, bool growToRegion, std::string& usedRange) {
+    const auto [sheetName, rangeText] = splitRange(dataRange);
+    Reference<css::sheet::XSpreadsheets> sheets = doc->getSheets();
+    if (!sheets->hasByName(ustr(sheetName)))
+        throw InputError(fmt::format("there is no sheet \"{}\" for the sales data", sheetName));
+    Reference<css::sheet::XSpreadsheet> sheet(sheets->getByName(ustr(sheetName)), UNO_QUERY_THROW);
+    Reference<css::table::XCellRange> range;
+    try {
+        range = sheet->getCellRangeByName(ustr(rangeText));
+    } catch (const css::uno::RuntimeException&) {
+        throw InputError(fmt::format("\"{}\" is not a cell range", rangeText));
+    }
+    Reference<css::sheet::XCellRangeAddressable> ra(range, UNO_QUERY_THROW);
+    css::table::CellRangeAddress a = ra->getRangeAddress();
+    if (growToRegion) {
+        // New sales pasted below (or columns added): take the region around the header.
+        Reference<css::sheet::XSheetCellCursor> cursor =
+            sheet->createCursorByRange(Reference<css::sheet::XSheetCellRange>(
+                sheet->getCellRangeByPosition(a.StartColumn, a.StartRow, a.StartColumn, a.StartRow), UNO_QUERY_THROW));
+        cursor->collapseToCurrentRegion();
+        Reference<css::sheet::XCellRangeAddressable> ca(cursor, UNO_QUERY_THROW);
+        const css::table::CellRangeAddress r = ca->getRangeAddress();
+        a.EndRow = std::max(a.EndRow, r.EndRow);
+        a.EndColumn = std::max(a.EndColumn, r.EndColumn);
+        range = sheet->getCellRangeByPosition(a.StartColumn, a.StartRow, a.EndColumn, a.EndRow);
+    }
+    Reference<css::sheet::XCellRangeData> data(range, UNO_QUERY_THROW);
+    Arg cells = toArg(data->getDataArray());
+    if (!cells) throw InputError("the sales table could not be read");
+    report::SheetData d;
+    d.sheet = sheetName;
+    d.firstRow = a.StartRow;
+    d.firstCol = a.StartColumn;
+    d.cells = std::move(*cells);
+    usedRange = sheetName + "." + report::columnName(a.StartColumn) + std::to_string(a.StartRow + 1) + ":" +
+                report::columnName(a.EndColumn) + std::to_string(a.EndRow + 1);
+    return d;
+}
+
+void storeSettings(const Reference<css::sheet::XSpreadsheetDocument>& doc, const std::string& sheet,
+                   const std::string& text) {
+    Reference<css::document::XDocumentPropertiesSupplier> dps(doc, UNO_QUERY_THROW);
+    Reference<css::beans::XPropertyContainer> udp = dps->getDocumentProperties()->getUserDefinedProperties();
+    Reference<css::beans::XPropertySet> ps(udp, UNO_QUERY_THROW);
+    const OUString name = ustr(kPropertyPrefix + sheet);
+    if (ps->getPropertySetInfo()->hasPropertyByName(name)) ps->setPropertyValue(name, Any(ustr(text)));
+    else udp->addProperty(name, css::beans::PropertyAttribute::REMOVABLE, Any(ustr(text)));
+}
+
+// A page style of our own for report sheets: landscape, one page wide; the print area is the
+// report's top part and its tables.
+void setUpPage(const Reference<css::sheet::XSpreadsheetDocument>& doc,
+               const Reference<css::sheet::XSpreadsheet>& sheet, const report::ReportPlan& plan) {
+    Reference<css::style::XStyleFamiliesSupplier> sfs(doc, UNO_QUERY_THROW);
+    Reference<css::container::XNameContainer> pages(sfs->getStyleFamilies()->getByName("PageStyles"), UNO_QUERY_THROW);
+    const OUString name = "Lintel report";
+    if (!pages->hasByName(name)) {
+        Reference<css::lang::XMultiServiceFactory> f(doc, UNO_QUERY_THROW);
+        pages->insertByName(name, Any(f->createInstance("com.sun.star.style.PageStyle")));
+    }
+    Reference<css::beans::XPropertySet> style(pages->getByName(name), UNO_QUERY_THROW);
+    sal_Int32 w = 0, h = 0;
+    style->getPropertyValue("Width") >>= w;
+    style->getPropertyValue("Height") >>= h;
+    if (w < h) {
+        style->setPropertyValue("Width", Any(h));
+        style->setPropertyValue("Height", Any(w));
+    }
+    style->setPropertyValue("IsLandscape", Any(true));
+    style->setPropertyValue("ScaleToPagesX", Any(static_cast<sal_Int16>(1)));
+    style->setPropertyValue("ScaleToPagesY", Any(static_cast<sal_Int16>(0)));
+    Reference<css::beans::XPropertySet> sp(sheet, UNO_QUERY_THROW);
+    sp->setPropertyValue("PageStyle", Any(name));
+    // Wider label and value columns for the settings block.
+    Reference<css::table::XColumnRowRange> crr(sheet, UNO_QUERY_THROW);
+    Reference<css::container::XIndexAccess> cols(crr->getColumns(), UNO_QUERY_THROW);
+    Reference<css::beans::XPropertySet>(cols->getByIndex(0), UNO_QUERY_THROW)->setPropertyValue("Width", Any(static_cast<sal_Int32>(3600)));
+    Reference<css::sheet::XPrintAreas> pa(sheet, UNO_QUERY_THROW);
+    Reference<css::sheet::XCellRangeAddressable> ra(
+        sheet->getCellRangeByPosition(0, 0, plan.printCols - 1, plan.printRows - 1), UNO_QUERY_THROW);
+    Sequence<css::table::CellRangeAddress> areas(1);
+    areas.getArray()[0] = ra->getRangeAddress();
+    pa->setPrintAreas(areas);
+}
+
+}  // namespace
+
+std::string loadReportSettings(const Reference<css::sheet::XSpreadsheetDocument>& doc, const std::string& sheet) {
+    Reference<css::document::XDocumentPropertiesSupplier> dps(doc, UNO_QUERY_THROW);
+    Reference<css::beans::XPropertySet> ps(dps->getDocumentProperties()->getUserDefinedProperties(), UNO_QUERY_THROW);
+    const OUString name = ustr(kPropertyPrefix + sheet);
+    if (!ps->getPropertySetInfo()->hasPropertyByName(name)) return {};
+    OUString v;
+    ps->getPropertyValue(name) >>= v;
+    return utf8(v);
+}
+
+std::string buildReport(const Reference<css::sheet::XSpreadsheetDocument>& doc, const std::string& settingsText,
+                        bool update, const std::string& updateSheet) {
+    report::ReportSettings settings;
+    if (update) {
+        const std::string stored = loadReportSettings(doc, updateSheet);
+        if (stored.empty())
+            throw InputError(fmt::format("sheet \"{}\" is not a Lintel report (no settings stored for it)", updateSheet));
+        settings = report::ReportSettings::parse(stored);
+        settings.sheetName = updateSheet;
+    } else {
+        settings = report::ReportSettings::parse(settingsText);
+    }
+    if (settings.dataRange.empty()) throw InputError("choose the sales table first");
+
+    Reference<css::frame::XModel> model(doc, UNO_QUERY);
+    Reference<css::task::XStatusIndicator> progress;
+    try {
+        Reference<css::task::XStatusIndicatorFactory> f(model->getCurrentController()->getFrame(), UNO_QUERY);
+        if (f.is()) progress = f->createStatusIndicator();
+    } catch (...) {
+    }
+    if (progress.is()) progress->start("Lintel: building the report", 100);
+
+    std::string usedRange;
+    const report::SheetData data = readSales(doc, settings.dataRange, update, usedRange);
+    settings.dataRange = usedRange;
+    const report::ReportPlan plan = report::planReport(settings, data);
+    if (progress.is()) progress->setValue(20);
+
+    Reference<css::sheet::XSpreadsheets> sheets = doc->getSheets();
+    Reference<css::container::XIndexAccess> byIndex(sheets, UNO_QUERY_THROW);
+    const OUString sheetName = ustr(plan.sheetName);
+    sal_Int16 position = static_cast<sal_Int16>(byIndex->getCount());
+    if (sheets->hasByName(sheetName)) {
+        for (sal_Int32 i = 0; i < byIndex->getCount(); ++i) {
+            Reference<css::container::XNamed> named(byIndex->getByIndex(i), UNO_QUERY);
+            if (named.is() && named->getName() == sheetName) position = static_cast<sal_Int16>(i);
+        }
+        sheets->removeByName(sheetName);
+    }
+    sheets->insertNewByName(sheetName, position);
+    Reference<css::sheet::XSpreadsheet> sheet(sheets->getByName(sheetName), UNO_QUERY_THROW);
+
+    Applier applier(doc);
+    const std::size_t n = plan.cells.size();
+    for (std::size_t i = 0; i < n; ++i) {
+        applier.apply(sheet, plan.cells[i]);
+        if (progress.is() && i % 200 == 0) progress->setValue(20 + static_cast<sal_Int32>(60 * i / n));
+    }
+    setUpPage(doc, sheet, plan);
+    Reference<css::sheet::XCalculatable> calc(doc, UNO_QUERY);
+    if (calc.is()) calc->calculateAll();
+    for (const auto& c : plan.charts) applier.chart(sheet, position, c);
+    if (progress.is()) progress->setValue(95);
+
+    storeSettings(doc, plan.sheetName, settings.serialize());
+    try {
+        Reference<css::sheet::XSpreadsheetView> view(model->getCurrentController(), UNO_QUERY);
+        if (view.is()) view->setActiveSheet(sheet);
+    } catch (...) {
+    }
+    if (progress.is()) progress->end();
+    return plan.status;
+}
+
+namespace {
+
+class ReportBuilder : public cppu::WeakImplHelper2<css::task::XJob, css::lang::XServiceInfo> {
+public:
+    explicit ReportBuilder(const Reference<css::uno::XComponentContext>& ctx) : ctx_(ctx) {}
+
+    Any SAL_CALL execute(const Sequence<css::beans::NamedValue>& args) override {
+        try {
+            Reference<css::sheet::XSpreadsheetDocument> doc;
+            std::string settings, mode = "build", sheet;
+            for (const auto& a : args) {
+                if (a.Name == "Document") a.Value >>= doc;
+                else if (a.Name == "Settings") { OUString s; a.Value >>= s; settings = utf8(s); }
+                else if (a.Name == "Mode") { OUString s; a.Value >>= s; mode = utf8(s); }
+                else if (a.Name == "Sheet") { OUString s; a.Value >>= s; sheet = utf8(s); }
+            }
+            if (!doc.is()) {
+                Reference<css::frame::XDesktop2> desktop = css::frame::Desktop::create(ctx_);
+                doc.set(desktop->getCurrentComponent(), UNO_QUERY);
+            }
+            if (!doc.is()) return Any(OUString("Lintel: no spreadsheet document to build the report in"));
+            if (mode != "build" && mode != "update")
+                return Any(OUString("Lintel: Mode must be \"build\" or \"update\""));
+            return Any(ustr(buildReport(doc, settings, mode == "update", sheet)));
+        } catch (const InputError& e) {
+            return Any(ustr(std::string("Lintel: ") + e.what()));
+        } catch (const css::uno::Exception& e) {
+            return Any("Lintel: the report could not be built: " + e.Message);
+        } catch (const std::exception& e) {
+            return Any(ustr(std::string("Lintel: internal error while building the report: ") + e.what()));
+        } catch (...) {
+            return Any(OUString("Lintel: internal error while building the report"));
+        }
+    }
+
+    OUString SAL_CALL getImplementationName() override { return "org.lintel.ReportBuilder"; }
+    sal_Bool SAL_CALL supportsService(const OUString& name) override { return cppu::supportsService(this, name); }
+    Sequence<OUString> SAL_CALL getSupportedServiceNames() override {
+        Sequence<OUString> s(1);
+        s.getArray()[0] = "org.lintel.ReportBuilder";
+        return s;
+    }
+
+private:
+    Reference<css::uno::XComponentContext> ctx_;
+};
+
+}  // namespace
+
+}  // namespace lintel::addin
+
+extern "C" SAL_DLLPUBLIC_EXPORT css::uno::XInterface* org_lintel_ReportBuilder_get_implementation(
+    css::uno::XComponentContext* ctx, css::uno::Sequence<css::uno::Any> const&) {
+    return cppu::acquire(new lintel::addin::ReportBuilder(ctx));
+}

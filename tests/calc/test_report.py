@@ -1,0 +1,172 @@
+"""Headless report builds (org.lintel.ReportBuilder, the service behind the sidebar's
+"Build report" and "Update report") on generated workbooks: the report sheet, its formulas,
+its charts and their ranges, values equal to the functions called directly, the base date
+cell driving the whole report, and settings that survive save and reload (.ods).
+
+Generating model of the test data (not the demo): 900 sales over 2021-01 .. 2023-12, districts
+East / West (1:1), ln price = 12 + 0.01 * month + 0.2 * [East] + N(0, 0.2^2), ids from a stock
+of 500 properties.
+"""
+import os
+import sys
+import unittest
+
+import numpy as np
+import pandas as pd
+
+sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "..", "scripts"))
+import uno  # noqa: E402
+from com.sun.star.beans import NamedValue  # noqa: E402
+from lintel_office import Office, prop, sheet_values  # noqa: E402
+
+OXT = os.environ.get("LINTEL_OXT")
+EPOCH = pd.Timestamp("1899-12-30")
+office = None
+
+
+def setUpModule():
+    global office
+    office = Office(OXT).__enter__()
+
+
+def tearDownModule():
+    alive = office.alive()
+    office.__exit__(None, None, None)
+    if not alive:
+        raise RuntimeError("soffice did not survive the tests")
+
+
+def sales_rows(n=900, seed=3, months=36):
+    rng = np.random.default_rng(seed)
+    month = rng.integers(0, months, n)
+    day = rng.integers(1, 28, n)
+    dates = [pd.Timestamp(2021 + m // 12, m % 12 + 1, d) for m, d in zip(month, day)]
+    east = rng.random(n) < 0.5
+    price = np.round(np.exp(12 + 0.01 * month + 0.2 * east + rng.normal(0, 0.2, n)), 0)
+    ids = rng.integers(1, 500, n)
+    rows = [("Sold", "Price", "Id", "District", "Area")]
+    for dt, p, i, e in zip(dates, price, ids, east):
+        rows.append((float((dt - EPOCH).days), float(p), f"H{i:03d}", "East" if e else "West",
+                     float(rng.integers(50, 200))))
+    return rows
+
+
+SETTINGS = """data=Sales.A1:E{last}
+date=Sold
+price=Price
+id=Id
+characteristics=Area
+segment.District=East
+freq=Q
+base=2022-02-10
+level=0.9
+methods=median|mean
+"""
+
+
+class ReportTest(unittest.TestCase):
+    def setUp(self):
+        self.doc = office.new_calc()
+        self.rows = sales_rows()
+        sales = self.doc.Sheets.getByIndex(0)
+        sales.Name = "Sales"
+        sales.getCellRangeByName(f"A1:E{len(self.rows)}").setDataArray(self.rows)
+        self.job = office.service("org.lintel.ReportBuilder")
+
+    def tearDown(self):
+        self.doc.close(True)
+
+    def build(self, settings=None, mode="build", sheet=None):
+        args = [NamedValue("Document", self.doc), NamedValue("Mode", mode)]
+        if settings is not None:
+            args.append(NamedValue("Settings", settings))
+        if sheet:
+            args.append(NamedValue("Sheet", sheet))
+        return self.job.execute(tuple(args))
+
+    def test_report_sheet_formulas_charts_and_values(self):
+        status = self.build(SETTINGS.format(last=len(self.rows)))
+        self.assertEqual(status.split(":")[0], "Report East")
+        self.assertIn("12 periods (2021-Q1 .. 2023-Q4)", status)
+        rep = self.doc.Sheets.getByName("Report East")
+        self.assertEqual(rep.getCellRangeByName("A1").getString(), "Price indexes: District = East (2021-Q1 .. 2023-Q4)")
+        self.assertIn("appraisal by a licensed professional", rep.getCellRangeByName("A2").getString())
+        self.assertEqual(rep.getCellRangeByName("B7").getString(), '($Sales.$D$2:$D$901="East")')
+        # Index tables: one array formula per method, sized to the 12 periods.
+        table = rep.getCellRangeByName("A73:E84")
+        # (the API shows array formulas in braces with "," separators)
+        self.assertEqual(table.getArrayFormula(),
+                         '{=INDEXMEDIAN($Sales.$A$2:$A$901,$Sales.$B$2:$B$901,($Sales.$D$2:$D$901="East"),$B$8,$B$9,"level="&$B$10)}')
+        self.assertTrue(rep.getCellRangeByName("G73:K84").getArrayFormula().startswith("{=INDEXMEAN("))
+        # The report's values equal the function called directly.
+        direct = self.doc.Sheets
+        direct.insertNewByName("Direct", direct.Count)
+        d = direct.getByName("Direct")
+        d.getCellRangeByName("A1:E12").setArrayFormula(
+            '=INDEXMEDIAN($Sales.A2:A901;$Sales.B2:B901;($Sales.D2:D901="East");"Q";DATE(2022;2;10);"level=0.9")')
+        self.doc.calculateAll()
+        self.assertEqual(sheet_values(rep, "A73:E84"), sheet_values(d, "A1:E12"))
+        self.assertEqual(rep.getCellRangeByName("B77").getValue(), 100.0)  # 2022-Q1 is the base
+        # Charts and the ranges they show.
+        charts = rep.Charts
+        names = set(charts.ElementNames)
+        self.assertEqual(names, {"LintelLevels", "LintelYearChange", "LintelPeriodChange",
+                                 "LintelSignalNoise", "LintelSales"})
+        levels = charts.getByName("LintelLevels").Ranges[0]
+        self.assertEqual((levels.StartColumn, levels.StartRow, levels.EndColumn, levels.EndRow), (12, 71, 14, 83))
+        sales_chart = charts.getByName("LintelSales").Ranges[0]
+        self.assertEqual((sales_chart.EndColumn - sales_chart.StartColumn, sales_chart.EndRow), (1, 83))
+        # Chart data lines the methods up by period.
+        block = sheet_values(rep, "M73:O84")
+        self.assertEqual([r[1] for r in block], [r[0] for r in sheet_values(rep, "B73:B84")])
+        # Change the base date in the settings block: the whole report follows.
+        rep.getCellRangeByName("B9").setValue(float((pd.Timestamp("2023-11-30") - EPOCH).days))
+        self.doc.calculateAll()
+        self.assertEqual(rep.getCellRangeByName("B84").getValue(), 100.0)
+        self.assertEqual(rep.getCellRangeByName("H84").getValue(), 100.0)
+        self.assertAlmostEqual(rep.getCellRangeByName("N84").getValue(), 100.0, places=9)
+
+    def test_settings_survive_save_reload_and_update_grows(self):
+        self.assertTrue(self.build(SETTINGS.format(last=len(self.rows))).startswith("Report East"))
+        path = os.path.join(office.scratch, "report-test.ods")
+        self.doc.storeToURL(uno.systemPathToFileUrl(path), (prop("FilterName", "calc8"),))
+        self.doc.close(True)
+        self.doc = office.load(path)
+        stored = self.doc.DocumentProperties.UserDefinedProperties.getPropertyValue("Lintel report: Report East")
+        self.assertIn("segment.District=East", stored)
+        self.assertIn("methods=median|mean", stored)
+        # New sales pasted below the table, in 2024-Q1: update rebuilds in place and grows.
+        sales = self.doc.Sheets.getByName("Sales")
+        extra = [(float((pd.Timestamp("2024-02-15") - EPOCH).days), 200000.0 + i, "H900", "East", 90.0)
+                 for i in range(5)]
+        last = len(self.rows)
+        sales.getCellRangeByName(f"A{last + 1}:E{last + 5}").setDataArray(extra)
+        status = self.build(mode="update", sheet="Report East")
+        self.assertIn("13 periods (2021-Q1 .. 2024-Q1)", status)
+        rep = self.doc.Sheets.getByName("Report East")
+        self.assertEqual(rep.getCellRangeByName("A73:E85").getArrayFormula().count("$A$2:$A$906"), 1)
+        self.assertEqual(rep.getCellRangeByName("C85").getValue(), 5.0)
+        self.assertEqual(self.doc.Sheets.Count, 2)  # rebuilt in place, not added
+
+    def test_bad_settings_give_messages(self):
+        last = len(self.rows)
+        cases = {
+            SETTINGS.format(last=last).replace("price=Price", "price=Cost"):
+                'Lintel: the price column "Cost" is not in the header of Sales.A1:E901',
+            SETTINGS.format(last=last).replace("segment.District=East", "segment.District=North"):
+                "Lintel: the segment (District = North) keeps no sale with a date and a price",
+            SETTINGS.format(last=last).replace("methods=median|mean", "methods=median|magic"):
+                'Lintel: unknown method "magic"',
+            SETTINGS.format(last=last).replace("data=Sales.A1", "data=Nowhere.A1"):
+                'Lintel: there is no sheet "Nowhere" for the sales data',
+        }
+        for settings, want in cases.items():
+            got = self.build(settings)
+            self.assertTrue(got.startswith(want), got)
+        self.assertTrue(self.build(mode="update", sheet="Sales").startswith(
+            'Lintel: sheet "Sales" is not a Lintel report'))
+        self.assertTrue(office.alive())
+
+
+if __name__ == "__main__":
+    unittest.main(verbosity=2)
