@@ -350,7 +350,8 @@ struct WindowFit {
     }
     double varDiff(int t, int s) const {
         if (t == s) return 0.0;
-        return std::max(0.0, covD(t, t) + covD(s, s) - 2 * covD(t, s));
+        const double v = covD(t, t) + covD(s, s) - 2 * covD(t, s);
+        return std::isnan(v) ? v : std::max(0.0, v);  // NaN: no residual df
     }
     VectorXd covDB(int t) const {
         const int i = t - p0;
@@ -363,6 +364,19 @@ struct WindowFit {
         return df > 0 ? stats::studentTQuantile(0.5 + level / 2, df) : kNoValue;
     }
 };
+
+// Rows [a, a + m) of the within-period deviations z~ (into X) and y~ (into yt), with the
+// period means of F (the same in every window: they are means over one period's sales).
+void demeanedRows(const Design& D, const WindowFit& F, std::size_t a, std::size_t m,
+                  MatrixXd& X, VectorXd& yt) {
+    fillRaw(D, a, m, X);
+    yt.resize(static_cast<Index>(m));
+    forRuns(D, a, m, [&](int p, Index s, Index len) {
+        X.middleRows(s, len).rowwise() -= F.zbar.row(p - F.p0);
+        yt.segment(s, len) =
+            Eigen::Map<const VectorXd>(D.y.data() + a + s, len).array() - F.ybar(p - F.p0);
+    });
+}
 
 WindowFit fitWindow(const Design& D, int p0, int p1, const HedonicOptions& o, bool wantSmear) {
     WindowFit F;
@@ -407,13 +421,7 @@ WindowFit fitWindow(const Design& D, int p0, int p1, const HedonicOptions& o, bo
     zgrand /= static_cast<double>(F.n);
 
     auto demeaned = [&](std::size_t a, std::size_t m, VectorXd& yt) {
-        fillRaw(D, a, m, X);
-        yt.resize(static_cast<Index>(m));
-        forRuns(D, a, m, [&](int p, Index s, Index len) {
-            X.middleRows(s, len).rowwise() -= F.zbar.row(p - p0);
-            yt.segment(s, len) =
-                Eigen::Map<const VectorXd>(D.y.data() + a + s, len).array() - F.ybar(p - p0);
-        });
+        demeanedRows(D, F, a, m, X, yt);
     };
 
     // Pass 2: A = Z~'Z~, c = Z~'y~, within sum of squares of ln p.
@@ -551,6 +559,42 @@ WindowFit fitWindow(const Design& D, int p0, int p1, const HedonicOptions& o, bo
     return F;
 }
 
+// The estimate d_e - d_s of fit F is a linear combination sum_i c_i ln p_i of the sales of
+// its window, c_i = [i in e]/n_e - [i in s]/n_s - z~_i' A^-1 (zbar_e - zbar_s). Adds r_i c_i
+// to w (indexed by sorted row), r_i = s (classical) or sqrt(n / df) e_i (HC1, e_i the fit's
+// residual), so that ||w||^2 is the variance of the combination; returns the change of ||w||^2.
+double addContrast(const Design& D, const WindowFit& F, int e, int s, std::vector<double>& w) {
+    if (e == s) return 0.0;
+    const double scale = F.df > 0 ? (F.hc ? std::sqrt(static_cast<double>(F.n) / F.df)
+                                          : std::sqrt(F.s2))
+                                  : kNoValue;
+    const VectorXd g =
+        F.Ainv * (F.zbar.row(e - F.p0) - F.zbar.row(s - F.p0)).transpose();
+    const double ne = static_cast<double>(F.cnt[e - F.p0]);
+    const double ns = static_cast<double>(F.cnt[s - F.p0]);
+    const std::size_t r0 = D.start[F.p0], r1 = D.start[F.p1 + 1];
+    MatrixXd X;
+    VectorXd yt, c;
+    double change = 0;
+    for (std::size_t a = r0; a < r1; a += kChunk) {
+        const std::size_t m = std::min(kChunk, r1 - a);
+        demeanedRows(D, F, a, m, X, yt);
+        c = -(X * g);
+        forRuns(D, a, m, [&](int p, Index st, Index len) {
+            if (p == e) c.segment(st, len).array() += 1.0 / ne;
+            if (p == s) c.segment(st, len).array() -= 1.0 / ns;
+        });
+        if (F.hc) c.array() *= (yt - X * F.b).array();
+        c *= scale;
+        for (std::size_t r = 0; r < m; ++r) {
+            const double delta = c(static_cast<Index>(r));
+            change += delta * (2 * w[a + r] + delta);
+            w[a + r] += delta;
+        }
+    }
+    return change;
+}
+
 void warnDropped(Diagnostics& diag, const std::vector<DroppedTerm>& dropped,
                  const std::string& where) {
     if (dropped.empty()) return;
@@ -583,7 +627,6 @@ std::vector<DroppedTerm> allDropped(const Design& D, const WindowFit& F) {
 struct Chain {
     std::vector<double> L;          // log level (arbitrary origin), kNoValue: no value
     std::vector<int> anchor;        // root-window period the chain reaches p through
-    std::vector<double> Q;          // summed link variances from the anchor to p
     std::vector<double> linkDf;     // residual df of the window that published p (links)
     std::vector<int> parent;        // previous chain period, -1 in the root window
     std::vector<int> window;        // index into fits of the window that published p
@@ -597,7 +640,6 @@ Chain buildChain(const Design& D, const HedonicOptions& o, bool wantSmear,
     const int T = D.T;
     C.L.assign(T, kNoValue);
     C.anchor.assign(T, -1);
-    C.Q.assign(T, 0.0);
     C.linkDf.assign(T, kInf);
     C.parent.assign(T, -1);
     C.window.assign(T, -1);
@@ -651,7 +693,6 @@ Chain buildChain(const Design& D, const HedonicOptions& o, bool wantSmear,
             const WindowFit& F = C.fits.back();
             C.L[e] = C.L[s] + (F.d(e) - F.d(s));
             C.anchor[e] = C.anchor[s];
-            C.Q[e] = C.Q[s] + F.varDiff(e, s);
             C.linkDf[e] = F.df;
             C.parent[e] = s;
             C.window[e] = static_cast<int>(C.fits.size()) - 1;
@@ -680,30 +721,66 @@ Chain buildChain(const Design& D, const HedonicOptions& o, bool wantSmear,
     return C;
 }
 
-// Variance of L_t - L_b along the chain, and the smallest residual df of the windows
-// involved. Links published by different windows are taken as independent (see docs): the
-// variance is the root window's var(d_a - d_a') between the anchors plus the link variances
-// between t and b.
-std::pair<double, double> chainVariance(const Chain& C, int t, int b) {
-    if (t == b) return {0.0, kInf};
+// The smallest residual df among the windows whose estimates enter L_t - L_b: the first
+// window when t and b reach it through different periods, and the links between them.
+double chainDf(const Chain& C, int t, int b) {
+    if (t == b) return kInf;
     const WindowFit& root = C.fits[0];
-    if (C.pooled) return {root.varDiff(t, b), root.df};
+    if (C.pooled) return root.df;
     const int at = C.anchor[t], ab = C.anchor[b];
-    // Smallest df of the links from `from` back to its ancestor `to`.
-    auto linkDfMin = [&](int from, int to) {
+    auto linkDfMin = [&](int from, int to) {  // links from `from` back to its ancestor `to`
         double m = kInf;
         for (int p = from; p != to && p >= 0; p = C.parent[p]) m = std::min(m, C.linkDf[p]);
         return m;
     };
-    double v = std::abs(C.Q[t] - C.Q[b]), df = kInf;
-    if (at != ab) {
-        // One of them lies in the root window (Q = 0) or both do.
-        v += root.varDiff(at, ab);
-        df = std::min({root.df, linkDfMin(t, at), linkDfMin(b, ab)});
+    if (at != ab) return std::min({root.df, linkDfMin(t, at), linkDfMin(b, ab)});
+    return linkDfMin(std::max(t, b), std::min(t, b));
+}
+
+// var(L_t - L_b) for every t, for the chained (rolling) index. L_t - L_b is a linear
+// combination of the log prices collecting the weights of every window estimate it uses (the
+// first window's d_t - d_r and each link's d_e - d_s), so its variance is ||w||^2 with
+// w_i = sum over those estimates of r_i c_i (addContrast): sales shared by overlapping windows
+// are counted once, with their weights from all the windows. Classical: r = the window's s;
+// HC1: r_i = sqrt(n/df) e_i with the window's residual. In the pooled case this is the
+// exact OLS variance.
+std::vector<double> chainVariances(const Design& D, const Chain& C, int b) {
+    const int T = D.T;
+    std::vector<double> var(T, kNoValue);
+    const WindowFit& root = C.fits[0];
+    int rstar = -1;  // the last period the first window published: u(rstar) = 0
+    for (int p = 0; p < T; ++p)
+        if (C.window[p] == 0) rstar = p;
+    const std::size_t n = D.y.size();
+    // u(b): weights of L_b - L_rstar.
+    std::vector<double> ub(n, 0.0);
+    if (C.window[b] == 0) {
+        addContrast(D, root, b, rstar, ub);
     } else {
-        df = linkDfMin(std::max(t, b), std::min(t, b));
+        for (int q = b; C.window[q] != 0; q = C.parent[q])
+            addContrast(D, C.fits[C.window[q]], q, C.parent[q], ub);
     }
-    return {v, df};
+    double ubNorm = 0;
+    for (double x : ub) ubNorm += x * x;
+    std::vector<double> w(n);
+    // Periods of the first window: w = u(t) - u(b).
+    for (int t = 0; t < T; ++t) {
+        if (C.window[t] != 0) continue;
+        for (std::size_t i = 0; i < n; ++i) w[i] = -ub[i];
+        var[t] = ubNorm + addContrast(D, root, t, rstar, w);
+    }
+    // Later periods, in chain order: u(t) = u(parent) + link.
+    for (std::size_t i = 0; i < n; ++i) w[i] = -ub[i];
+    double v = ubNorm;
+    for (int t = rstar + 1; t < T; ++t) {
+        if (C.window[t] <= 0) continue;
+        v += addContrast(D, C.fits[C.window[t]], t, C.parent[t], w);
+        var[t] = v;
+    }
+    var[b] = 0.0;
+    for (auto& x : var)
+        if (!std::isnan(x)) x = std::max(x, 0.0);
+    return var;
 }
 
 }  // namespace
@@ -726,13 +803,18 @@ IndexResult hedonicIndex(const HedonicInput& input, const HedonicOptions& o) {
     tb.index.assign(T, kNoValue);
     tb.lower.assign(T, kNoValue);
     tb.upper.assign(T, kNoValue);
+    const std::vector<double> rollingVar =
+        C.pooled ? std::vector<double>() : chainVariances(D, C, b);
     for (int t = 0; t < T; ++t) {
         if (!hasValue(C.L[t])) continue;
         const double delta = C.L[t] - C.L[b];
-        const auto [v, df] = chainVariance(C, t, b);
+        const double v = C.pooled ? C.fits[0].varDiff(t, b) : rollingVar[t];
+        const double df = chainDf(C, t, b);
         const bool kennedy = o.bias == HedonicBias::Kennedy && std::isfinite(v);
         tb.index[t] = 100.0 * std::exp(kennedy ? delta - v / 2 : delta);
-        if (std::isfinite(v) && df > 0) {
+        // The base's band is [100, 100] when its fit has residual df, else none.
+        const bool bandable = t != b || C.fits[C.window[b]].df > 0;
+        if (bandable && std::isfinite(v) && df > 0) {
             const double q =
                 std::isinf(df) ? 0.0 : stats::studentTQuantile(0.5 + o.level / 2, df);
             const double h = q * std::sqrt(v);

@@ -12,7 +12,8 @@
 // - rolling window (window = k >= 2): a fit on the k periods ending at t moves the index from
 //   the latest earlier period s with a value: I_t = I_s exp(d_t - d_s) (Hill, Scholz,
 //   Shimizu & Steurer 2022, J. Official Statistics 38); k = 2 is the adjacent-period method.
-//   Published values never revise.
+//   Published values never revise. Bands of the chain: the variance of ln I_t - ln I_base
+//   as one linear combination of the log prices, sales shared by windows counted once.
 // Options: Kennedy's (1981, AER 71:801) correction exp(d - var(d)/2); classical or HC1
 // (White 1980 with the n / (n - p) factor, MacKinnon & White 1985) standard errors.
 //

@@ -221,13 +221,33 @@ for home, retransform in [("", "smearing"), ("1500|4|D|30", "lognormal")]:
 # ---- rolling windows (k = 3 and adjacent-period k = 2), across the gaps ------------------
 
 
+def contrast_weights(res, sub, e, s, cov):
+    """Weights r_i c_i on the window's sales of the estimate d_e - d_s, with c = X (X'X)^-1 l
+    from the statsmodels design, r_i = s (classical) or sqrt(n/df) e_i (HC1): the sum of
+    squares of the weights is the (classical or HC1) variance of d_e - d_s."""
+    X, _ = design(sub, sorted(sub.m.unique())[0])
+    lam = pd.Series(0.0, index=X.columns)
+    if f"P{e}" in lam.index:
+        lam[f"P{e}"] += 1
+    if f"P{s}" in lam.index:
+        lam[f"P{s}"] -= 1
+    c = X.values @ (res.normalized_cov_params.values @ lam.values)
+    if cov == "HC1":
+        c = c * np.sqrt(res.nobs / res.df_resid) * res.resid
+    else:
+        c = c * np.sqrt(res.scale)
+    return pd.Series(c, index=sub.index).reindex(use.index, fill_value=0.0).values
+
+
 def rolling_reference(k, cov="nonrobust", base_m=0):
-    """The documented chain, each window fitted by statsmodels: the root window (periods
+    """The documented chain, each window fitted by statsmodels: the first window (periods
     0..k-1) gives its periods; each later period e with sales links to the latest earlier
     period s with a value by the window e-k+1..e, stretched back to s when s < e-k+1.
-    Bands: var = root var between anchors + summed link variances; t quantile with the
-    smallest residual df of the windows involved."""
-    L, anchor, Q, parent, linkdf = {}, {}, {}, {}, {}
+    Bands: ln I_t - ln I_b is a linear combination of the log prices collecting the weights
+    of every window estimate it uses; its variance is the sum of squares of the scaled
+    weights (contrast_weights); t quantile with the smallest residual df of the windows
+    involved."""
+    L, anchor, parent, linkdf, u = {}, {}, {}, {}, {}
     all_ok = True
     root_res = None
     for e in range(k - 1, 24):
@@ -236,10 +256,11 @@ def rolling_reference(k, cov="nonrobust", base_m=0):
             pres = sorted(sub.m.unique())
             root_res, ok = sm_fit(sub, pres[0], cov)
             all_ok &= ok
-            d, root_C = period_levels(root_res, pres, pres[0])
-            root_idx = {p: i for i, p in enumerate(pres)}
+            d, _ = period_levels(root_res, pres, pres[0])
+            rstar = pres[-1]
             for i, p in enumerate(pres):
-                L[p], anchor[p], Q[p], parent[p], linkdf[p] = d[i], p, 0.0, None, np.inf
+                L[p], anchor[p], parent[p], linkdf[p] = d[i], p, None, np.inf
+                u[p] = contrast_weights(root_res, sub, p, rstar, cov)
             continue
         if counts[e] == 0:
             continue
@@ -249,10 +270,10 @@ def rolling_reference(k, cov="nonrobust", base_m=0):
         pres = sorted(sub.m.unique())
         r, ok = sm_fit(sub, pres[0], cov)
         all_ok &= ok
-        d, C = period_levels(r, pres, pres[0])
+        d, _ = period_levels(r, pres, pres[0])
         i, j = pres.index(e), pres.index(s)
         L[e] = L[s] + d[i] - d[j]
-        Q[e] = Q[s] + C[i, i] + C[j, j] - 2 * C[i, j]
+        u[e] = u[s] + contrast_weights(r, sub, e, s, cov)
         anchor[e], parent[e], linkdf[e] = anchor[s], s, r.df_resid
 
     def links_df(frm, to):
@@ -266,16 +287,13 @@ def rolling_reference(k, cov="nonrobust", base_m=0):
     b = base_m
     for t in L:
         delta = L[t] - L[b]
+        v = float(np.sum((u[t] - u[b]) ** 2))
         if t == b:
-            v, df = 0.0, np.inf
+            df = np.inf
+        elif anchor[t] != anchor[b]:
+            df = min(root_res.df_resid, links_df(t, anchor[t]), links_df(b, anchor[b]))
         else:
-            v = abs(Q[t] - Q[b])
-            if anchor[t] != anchor[b]:
-                ia, ib = root_idx[anchor[t]], root_idx[anchor[b]]
-                v += root_C[ia, ia] + root_C[ib, ib] - 2 * root_C[ia, ib]
-                df = min(root_res.df_resid, links_df(t, anchor[t]), links_df(b, anchor[b]))
-            else:
-                df = links_df(max(t, b), min(t, b))
+            df = links_df(max(t, b), min(t, b))
         q = 0.0 if np.isinf(df) else sps.t.ppf(0.975, df)
         out[t] = 100 * np.exp([delta, delta - q * np.sqrt(v), delta + q * np.sqrt(v)])
     return out, all_ok
@@ -295,6 +313,36 @@ for k, cov, se_opt, base_m in [(3, "nonrobust", "classical", 0), (2, "nonrobust"
                  source=src)
     checks.true(f"rolling k={k}: values after the gaps (2020-08, 2021-08) exist",
                 np.isfinite(got["index"][7]) and np.isfinite(got["index"][19]))
+
+# Rolling reference home: each period is valued with the window that published it (the
+# root window for the first k periods), retransformed with that window's smearing factor.
+k = 3
+got = run_refcli(args.refcli, "hedonic_home", core_in, log=1, categorical=2, window=k, home="1500|4|D|30")
+want = np.full((24, 3), np.nan)
+h = dict(sqft=1500.0, bedrooms=4, district="D", age=30.0)
+published = []
+for e in range(24):
+    if counts[e] == 0:
+        continue
+    if e <= k - 1:
+        lo_m = 0
+        hi_m = k - 1
+    else:
+        s = max(p for p in published if p < e)
+        lo_m, hi_m = min(e - k + 1, s), e
+    published.append(e)
+    sub = use[(use.m >= lo_m) & (use.m <= hi_m)]
+    pres = sorted(sub.m.unique())
+    r, _ = sm_fit(sub, pres[0])
+    row = pd.DataFrame([dict(h, m=e, price=1.0)])
+    X, _ = design(row, pres[0])
+    X = X.reindex(columns=r.params.index, fill_value=0.0)
+    p = r.get_prediction(X)
+    mu, se = float(p.predicted_mean[0]), float(p.se_mean[0])
+    q = sps.t.ppf(0.975, r.df_resid)
+    want[e] = np.mean(np.exp(r.resid)) * np.exp([mu, mu - q * se, mu + q * se])
+checks.close("rolling k=3 home 1500|4|D|30: value, lower, upper", got[["value", "lower", "upper"]].values, want,
+             source="statsmodels get_prediction on each publishing window x Duan smearing")
 
 # Rolling: the published values do not revise when later months arrive.
 early = core_in[frame.m <= 12]
