@@ -24,8 +24,13 @@ LeadLagResult leadLagOrEmpty(const LeadLagInput& in, const LeadLagOptions& o) {
     LeadLagResult r;
     const int p = periodsPerYear(o.freq);
     r.changeLag = o.changeLag > 0 ? o.changeLag : p;
-    const int maxLag = o.maxLag >= 0 ? o.maxLag : std::max(p, 2);
     const std::size_t n = in.a.size();
+    // Default: one year of periods, but never beyond the rows there are.
+    const int maxLag = o.maxLag >= 0 ? o.maxLag
+                                     : std::min(std::max(p, 2), std::max(0, static_cast<int>(n) - 1));
+    if (o.maxLag >= 0 && static_cast<std::size_t>(o.maxLag) >= std::max<std::size_t>(n, 1))
+        throw InputError(fmt::format("maxlag must be smaller than the number of rows ({}), got {}",
+                                     n, o.maxLag));
     r.diag.rowsIn = n;
     std::size_t both = 0, blank = 0, nonPos = 0;
     for (std::size_t i = 0; i < n; ++i) {

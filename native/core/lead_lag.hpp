@@ -30,8 +30,8 @@ struct LeadLagInput {
 struct LeadLagOptions {
     Frequency freq = Frequency::Month;  // freq: "M" (default), "Q", "Y"; sets the defaults below
     int changeLag = 0;     // lag: periods spanned by each change; 0 = one year (12, 4, 1)
-    int maxLag = -1;       // maxlag: largest lead or lag tried; -1 = one year of periods
-                           // (12 M, 4 Q, 2 Y)
+    int maxLag = -1;       // maxlag: largest lead or lag tried, < rows; -1 = one year of
+                           // periods (12 M, 4 Q, 2 Y), at most rows - 1
     std::size_t minPairs = 3;  // minpairs: fewer pairs at a lag = no correlation there (>= 3)
 };
 

@@ -19,6 +19,9 @@ const char* const kBlankStratum = "blank stratum";
 
 namespace {
 
+// Stratum-period cells held at most (memory guard against e.g. an id column as strata).
+constexpr std::size_t kMaxCells = 2000000;
+
 bool blankText(const std::string& s) {
     return std::all_of(s.begin(), s.end(),
                        [](char c) { return std::isspace(static_cast<unsigned char>(c)); });
@@ -214,16 +217,28 @@ MixResult indexMix(const MixInput& in, const MixOptions& o) {
     c.T = s.axis.count;
     r.strata = ids.size();
     const std::size_t HT = static_cast<std::size_t>(c.H) * c.T;
-    std::vector<std::vector<double>> prices(HT);
-    for (std::size_t j = 0; j < s.rows.size(); ++j)
-        prices[c.at(sid[j], s.period[j])].push_back(in.sales.price[s.rows[j]]);
+    if (HT > kMaxCells)
+        throw InputError(fmt::format(
+            "strata: {} strata over {} periods are too many cells (more than {}); a stratum "
+            "should hold many sales, so use coarser strata columns",
+            c.H, c.T, kMaxCells));
+    // The prices of each cell, contiguous: cell k holds pool[offset[k] .. offset[k+1]).
+    std::vector<std::size_t> offset(HT + 1, 0);
+    for (std::size_t j = 0; j < s.rows.size(); ++j) ++offset[c.at(sid[j], s.period[j]) + 1];
+    for (std::size_t k = 0; k < HT; ++k) offset[k + 1] += offset[k];
+    std::vector<double> pool(s.rows.size());
+    {
+        std::vector<std::size_t> next(offset.begin(), offset.end() - 1);
+        for (std::size_t j = 0; j < s.rows.size(); ++j)
+            pool[next[c.at(sid[j], s.period[j])]++] = in.sales.price[s.rows[j]];
+    }
     c.count.assign(HT, 0);
     c.value.assign(HT, 0.0);
     c.price.assign(HT, kNoValue);
     std::size_t thinRows = 0;
     std::vector<double> anyPrice(c.T, kNoValue);
     for (std::size_t k = 0; k < HT; ++k) {
-        auto& v = prices[k];
+        const std::vector<double> v(pool.begin() + offset[k], pool.begin() + offset[k + 1]);
         c.count[k] = v.size();
         c.value[k] = std::accumulate(v.begin(), v.end(), 0.0);
         if (v.empty()) continue;
@@ -255,10 +270,11 @@ MixResult indexMix(const MixInput& in, const MixOptions& o) {
         std::vector<double> sample;
         for (int k = 0; k < o.reps; ++k) {
             for (std::size_t cell = 0; cell < HT; ++cell) {
-                const auto& v = prices[cell];
-                if (v.empty()) continue;
-                sample.resize(v.size());
-                for (double& x : sample) x = v[draw(gen, v.size())];
+                const std::size_t m = offset[cell + 1] - offset[cell];
+                if (m == 0) continue;
+                const double* v = pool.data() + offset[cell];
+                sample.resize(m);
+                for (double& x : sample) x = v[draw(gen, m)];
                 rc.value[cell] = std::accumulate(sample.begin(), sample.end(), 0.0);
                 if (hasValue(c.price[cell]))
                     rc.price[cell] = o.stat == MixStatistic::Median

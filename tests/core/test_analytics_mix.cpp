@@ -155,6 +155,15 @@ BOOST_AUTO_TEST_CASE(mix_two_strata_columns) {
     BOOST_CHECK_THROW(indexMix(none, MixOptions{}), InputError);
 }
 
+BOOST_AUTO_TEST_CASE(mix_refuses_an_id_column_as_strata) {
+    // 25,000 sales, each its own stratum, over 100 months: 2.5 million cells, above the
+    // 2,000,000-cell guard: a clear input error instead of gigabytes of memory.
+    Builder b;
+    for (int i = 0; i < 25000; ++i)
+        b.add({2010 + (i % 100) / 12, (i % 100) % 12 + 1, 1}, 1000.0 + i, std::to_string(i));
+    BOOST_CHECK_THROW(indexMix(b.in, MixOptions{}), InputError);
+}
+
 BOOST_AUTO_TEST_CASE(mix_chain_links_at_q4) {
     // Quarterly, strata A and B, median = the single price of each cell (repeated sales give
     // the counts). Year 1 counts: A 2+1+1+1 = 5, B 2+1+3+1 = 7; year 2: A 1+3+1+1 = 6,

@@ -196,6 +196,14 @@ BOOST_AUTO_TEST_CASE(leadlag_hand_computed_and_errors) {
     BOOST_CHECK_THROW(indexLeadLag({{100, 101, 102}, {100, 101, 102}}, o), InputError);
     o.minPairs = 2;
     BOOST_CHECK_THROW(indexLeadLag({a, a}, o), InputError);
+    // maxlag beyond the rows is an input error; the default shrinks to the rows there are.
+    LeadLagOptions big;
+    big.changeLag = 1;
+    big.maxLag = 8;
+    BOOST_CHECK_THROW(indexLeadLag({a, a}, big), InputError);
+    big.maxLag = -1;
+    const LeadLagResult shrunk = indexLeadLag({a, a}, big);
+    BOOST_TEST(shrunk.rows.size() == 15u);  // lags -7 .. 7
 }
 
 BOOST_AUTO_TEST_CASE(seasonal_recovers_exact_factors) {
