@@ -30,8 +30,8 @@
 // Bands: by default none (kNoValue): a weighted sum of ratios of stratum medians has no
 // closed-form sampling distribution we would trust at small cell sizes. Option
 // bands=bootstrap gives a stratified percentile bootstrap (Efron & Tibshirani, An
-// Introduction to the Bootstrap, 1993, ch. 13; resampling within strata as in their sec. 8.x
-// for stratified samples, from memory): each replicate redraws, with replacement, the sales
+// Introduction to the Bootstrap, 1993, ch. 13; resampling within strata for a stratified
+// sample, from memory): each replicate redraws, with replacement, the sales
 // of every stratum-period cell (cell sizes kept), recomputes the whole index (weights, links,
 // base = 100), and the band is the (1 - level)/2 and (1 + level)/2 linear-interpolation
 // quantiles of the replicates (numpy's default quantile rule). The base period itself gets
