@@ -55,6 +55,10 @@ using Eigen::VectorXd;
 
 constexpr double kConstantTol2 = 1e-14;  // (1e-7)^2: R's lm tolerance on column norms
 constexpr std::size_t kChunk = 1024;     // rows per block of the demeaned design
+// Limits that keep the k x k system and its O(n k^2) cost within reason (a column of ids
+// or addresses would otherwise make one term per sale).
+constexpr std::size_t kMaxLevels = 1000;  // levels of one categorical column
+constexpr std::size_t kMaxTerms = 1500;   // characteristic terms in all
 constexpr double kInf = std::numeric_limits<double>::infinity();
 const std::string kCombinedReason = "characteristic";
 
@@ -259,6 +263,11 @@ Design buildDesign(const HedonicInput& in, const HedonicOptions& o) {
                 for (std::size_t r = 0; r < m; ++r)
                     col.code[r] = seen.at(c.numeric[D.inputRow[r]]);
             }
+            if (col.levels.size() > kMaxLevels)
+                throw InputError(fmt::format(
+                    "characteristics column {} ({}) has {} different values; a categorical "
+                    "column may have at most {} (is it an id or an address?)",
+                    j + 1, col.name, col.levels.size(), kMaxLevels));
             col.levelCount.assign(col.levels.size(), 0);
             for (int x : col.code) ++col.levelCount[x];
             // Reference: the most frequent level (ties: the first in sorted order).
@@ -277,6 +286,9 @@ Design buildDesign(const HedonicInput& in, const HedonicOptions& o) {
         }
         D.cols.push_back(std::move(col));
     }
+    if (D.terms.size() > kMaxTerms)
+        throw InputError(fmt::format("the characteristics make {} terms; at most {} are allowed",
+                                     D.terms.size(), kMaxTerms));
     return D;
 }
 

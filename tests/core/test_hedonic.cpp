@@ -393,6 +393,20 @@ BOOST_AUTO_TEST_CASE(input_errors_say_what_is_wrong) {
     BOOST_CHECK_THROW(referenceHomeValue(m.in, home, logSize()), InputError);
 }
 
+BOOST_AUTO_TEST_CASE(an_id_column_is_refused_not_fitted) {
+    Market m = market(12, 100, 0.1);
+    CharacteristicColumn id{"id", {}, {}};
+    for (std::size_t i = 0; i < m.month.size(); ++i) id.text.push_back("sale " + std::to_string(i));
+    m.in.characteristics.push_back(id);
+    try {
+        hedonicIndex(m.in, logSize());
+        BOOST_FAIL("no error");
+    } catch (const InputError& e) {
+        BOOST_TEST(std::string(e.what()).find("column 5 (id) has 1200 different values") !=
+                   std::string::npos);
+    }
+}
+
 BOOST_AUTO_TEST_CASE(no_degrees_of_freedom_gives_values_without_bands) {
     // Two periods, two sales each, one characteristic: n = 4, p = 2 + 1, df = 1; with one
     // sale fewer df = 0: values, no bands, no exception.
