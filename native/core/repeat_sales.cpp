@@ -29,7 +29,7 @@ struct Obs {
     int s = 0, t = 0;
     double y = 0;      // ln(P2 / P1)
     double years = 0;  // (t - s) / periods per year
-    std::size_t pair = 0;  // index into BuiltPairs::pairs
+    std::size_t pair = 0;  // index into the BuiltPairs columns
 };
 
 // Union-find over periods; the root of a part is its earliest period.
@@ -261,6 +261,29 @@ std::string noValueText(NoValue why, const RepeatSalesOptions& o) {
     return "";
 }
 
+// Pairs formed, used and dropped by reason (texts in the order they first occur).
+PairCounts countPairs(const BuiltPairs& bp, const RepeatSalesOptions& o) {
+    PairCounts c;
+    c.formed = bp.size();
+    std::vector<int> slot(64, -1);  // (status, problem) -> position in c.dropped
+    for (std::size_t i = 0; i < bp.size(); ++i) {
+        if (bp.status[i] == PairStatus::Used) {
+            ++c.used;
+            continue;
+        }
+        const std::size_t key = static_cast<std::size_t>(bp.status[i]) * 5 +
+                                static_cast<std::size_t>(bp.problem[i]);
+        if (slot[key] < 0) {
+            const std::string text = rs_detail::reasonText(bp, i, o);
+            // Different codes never share a text, so a new key is a new entry.
+            slot[key] = static_cast<int>(c.dropped.size());
+            c.dropped.emplace_back(text, 0);
+        }
+        ++c.dropped[slot[key]].second;
+    }
+    return c;
+}
+
 // What both estimators hand to the table assembly.
 struct Levels {
     std::vector<double> level;   // log level per period (any reference); kNoValue = none
@@ -278,7 +301,7 @@ public:
 
     void run() {
         std::size_t candidates = 0;
-        for (char c : bp_.candidate) candidates += c != 0;
+        for (PairStatus st : bp_.status) candidates += st == PairStatus::Used;
         if (candidates == 0 || !bp_.axis)
             throw InputError("no usable pair of sales: " + pairSummaryNow());
         axis_ = *bp_.axis;
@@ -289,17 +312,17 @@ public:
                 "(use a coarser freq)", T_, axis_.rangeText(), kMaxPeriods));
         ppy_ = periodsPerYear(o_.freq);
         obs_.reserve(candidates);
-        for (std::size_t i = 0; i < bp_.pairs.size(); ++i) {
-            if (!bp_.candidate[i]) continue;
+        for (std::size_t i = 0; i < bp_.size(); ++i) {
+            if (bp_.status[i] != PairStatus::Used) continue;
             Obs ob;
             ob.s = static_cast<int>(bp_.key1[i] - axis_.firstKey);
             ob.t = static_cast<int>(bp_.key2[i] - axis_.firstKey);
-            ob.y = std::log(bp_.pairs[i].secondPrice / bp_.pairs[i].firstPrice);
+            ob.y = bp_.y[i];
             ob.years = static_cast<double>(ob.t - ob.s) / ppy_;
             ob.pair = i;
             obs_.push_back(ob);
         }
-        weight_.assign(bp_.pairs.size(), 0.0);
+        weight_.assign(bp_.size(), 0.0);
         Levels lv = o_.chain == 1 ? chained() : joint();
         assemble(lv);
     }
@@ -316,17 +339,8 @@ private:
     StageTwoNotes notes_;
 
     std::string pairSummaryNow() const {
-        PairCounts c;
-        for (const SalePair& p : bp_.pairs) {
-            ++c.formed;
-            if (p.status == PairStatus::Used) continue;
-            bool found = false;
-            for (auto& [k, v] : c.dropped)
-                if (k == p.reason) { ++v; found = true; break; }
-            if (!found) c.dropped.emplace_back(p.reason, 1);
-        }
-        return c.formed == 0 ? "no property has two sales with a usable date and id"
-                             : c.summary();
+        if (bp_.size() == 0) return "no property has two sales with a usable date and id";
+        return countPairs(bp_, o_).summary();
     }
 
     int explicitBase() const {
@@ -334,11 +348,7 @@ private:
         return axis_.positionOf(*o_.baseDate);
     }
 
-    void drop(const Obs& ob, PairStatus s) {
-        bp_.pairs[ob.pair].status = s;
-        bp_.pairs[ob.pair].reason = rs_detail::statusText(s, o_);
-        bp_.pairs[ob.pair].used = false;
-    }
+    void drop(const Obs& ob, PairStatus s) { bp_.status[ob.pair] = s; }
 
     // The connected part to estimate among `obs`: the base period's part when a base is
     // given and a pair reaches it, else the part with the most pairs (ties: the earliest).
@@ -352,13 +362,12 @@ private:
         if (root < 0)
             for (int p = 0; p < T_; ++p)
                 if (count[p] > 0 && (root < 0 || count[p] > count[root])) root = p;
-        std::vector<Obs> kept;
-        kept.reserve(obs.size());
-        for (const Obs& ob : obs) {
-            if (cc.find(ob.s) == root) kept.push_back(ob);
-            else drop(ob, PairStatus::NotLinked);
+        std::size_t j = 0;  // compact in place, keeping the order
+        for (std::size_t i = 0; i < obs.size(); ++i) {
+            if (cc.find(obs[i].s) == root) obs[j++] = obs[i];
+            else drop(obs[i], PairStatus::NotLinked);
         }
-        obs.swap(kept);
+        obs.resize(j);
         return root;
     }
 
@@ -417,9 +426,13 @@ private:
         return f;
     }
 
-    void markNoValueJoint(Levels& lv, const std::vector<Obs>& allObs, int upTo) {
+    std::vector<char> touchedPeriods(const std::vector<Obs>& obs) const {
         std::vector<char> touched(T_, 0);
-        for (const Obs& ob : allObs) touched[ob.s] = touched[ob.t] = 1;
+        for (const Obs& ob : obs) touched[ob.s] = touched[ob.t] = 1;
+        return touched;
+    }
+
+    void markNoValueJoint(Levels& lv, const std::vector<char>& touched, int upTo) {
         for (int p = 0; p < upTo; ++p)
             if (!hasValue(lv.level[p]) && lv.why[p] == NoValue::None)
                 lv.why[p] = touched[p] ? NoValue::NotLinked : NoValue::NoPair;
@@ -427,10 +440,11 @@ private:
 
     Levels joint() {
         Levels lv = emptyLevels();
-        std::vector<Obs> obs = obs_;
+        std::vector<char> touched = touchedPeriods(obs_);
         std::vector<char> inPart;
-        JointFit f = fitPart(obs, explicitBase(), lv, nullptr, inPart);
-        markNoValueJoint(lv, obs_, T_);
+        // obs_ keeps only the pairs of the estimated part from here on.
+        JointFit f = fitPart(obs_, explicitBase(), lv, nullptr, inPart);
+        markNoValueJoint(lv, touched, T_);
         lv.scale = f.s2;
         lv.model = f.model;
         return lv;
@@ -453,12 +467,10 @@ private:
         double nObs = 0, nPar = 0;
         if (!window.empty()) {
             const int b = explicitBase();
+            const std::vector<char> touched = touchedPeriods(window);
             std::vector<char> inPart;
             JointFit f = fitPart(window, b < init ? b : -1, lv, cs ? &acc : nullptr, inPart);
-            std::vector<Obs> windowAll;
-            for (const Obs& ob : obs_)
-                if (ob.t < init) windowAll.push_back(ob);
-            markNoValueJoint(lv, windowAll, init);
+            markNoValueJoint(lv, touched, init);
             sumWr2 = f.fin.sumWr2;
             nObs = static_cast<double>(f.n);
             nPar = static_cast<double>(f.k);
@@ -584,25 +596,20 @@ private:
                 tb.upper[t] = 100.0 * std::exp(d + q * se);
             }
         }
-        for (const Obs& ob : obs_)
-            if (bp_.pairs[ob.pair].status == PairStatus::Used) ++tb.count[ob.t];
-        r_.scale = lv.scale;
-        r_.variance = lv.model;
-        // Weights normalised to mean 1 over the used pairs.
+        // Used pairs: counts per period, weights normalised to mean 1.
         double sumW = 0;
         std::size_t used = 0;
         for (const Obs& ob : obs_)
-            if (bp_.pairs[ob.pair].status == PairStatus::Used) {
+            if (bp_.status[ob.pair] == PairStatus::Used) {
+                ++tb.count[ob.t];
                 sumW += weight_[ob.pair];
                 ++used;
             }
-        for (const Obs& ob : obs_) {
-            SalePair& p = bp_.pairs[ob.pair];
-            if (p.status == PairStatus::Used) {
-                p.used = true;
-                p.weight = weight_[ob.pair] * static_cast<double>(used) / sumW;
-            }
-        }
+        const double norm = static_cast<double>(used) / sumW;
+        for (const Obs& ob : obs_)
+            if (bp_.status[ob.pair] == PairStatus::Used) bp_.weight[ob.pair] = weight_[ob.pair] * norm;
+        r_.scale = lv.scale;
+        r_.variance = lv.model;
         // Warnings naming the periods without a value, one per cause.
         for (NoValue why : {NoValue::NoPair, NoValue::NotLinked, NoValue::NoPairEnds,
                             NoValue::Unreached, NoValue::Thin}) {
@@ -620,33 +627,21 @@ private:
     }
 };
 
-// Rows used, row drops, pair counts; moves the pairs into the result.
-void finish(BuiltPairs& bp, RepeatSalesResult& r) {
+// Rows used, row drops, pair counts.
+void finish(BuiltPairs& bp, const RepeatSalesOptions& o, RepeatSalesResult& r) {
     r.diag.dropped.insert(r.diag.dropped.begin(), bp.diag.dropped.begin(), bp.diag.dropped.end());
     r.diag.rowsIn = bp.diag.rowsIn;
-    // Warnings from screening (none today) come first.
     r.diag.warnings.insert(r.diag.warnings.begin(), bp.diag.warnings.begin(),
                            bp.diag.warnings.end());
-    PairCounts& c = r.pairCounts;
-    c.formed = bp.pairs.size();
-    for (const SalePair& p : bp.pairs) {
-        if (p.used) {
-            ++c.used;
-            continue;
-        }
-        bool found = false;
-        for (auto& [k, v] : c.dropped)
-            if (k == p.reason) { ++v; found = true; break; }
-        if (!found) c.dropped.emplace_back(p.reason, 1);
-    }
-    if (bp.fromRows) {
+    r.pairCounts = countPairs(bp, o);
+    if (bp.sales) {
         const std::size_t n = bp.rowUsable.size();
         std::vector<char> inReal(n, 0), inUsed(n, 0);
-        for (std::size_t i = 0; i < bp.pairs.size(); ++i) {
+        for (std::size_t i = 0; i < bp.size(); ++i) {
             if (!bp.realPair[i]) continue;
-            const SalePair& p = bp.pairs[i];
-            inReal[p.firstRow] = inReal[p.secondRow] = 1;
-            if (p.used) inUsed[p.firstRow] = inUsed[p.secondRow] = 1;
+            const std::size_t a = bp.firstRow[i], b = bp.secondRow[i];
+            inReal[a] = inReal[b] = 1;
+            if (bp.status[i] == PairStatus::Used) inUsed[a] = inUsed[b] = 1;
         }
         std::size_t used = 0, single = 0, none = 0;
         for (std::size_t i = 0; i < n; ++i) {
@@ -656,37 +651,43 @@ void finish(BuiltPairs& bp, RepeatSalesResult& r) {
             else ++single;
         }
         r.diag.rowsUsed = used;
-        // Duplicates were counted while building.
         r.diag.drop(reason::kSingleSale, single);
         r.diag.drop(reason::kNoUsedPair, none);
     } else {
         // Pairs given directly: each pair is a row.
-        r.diag.rowsIn = bp.pairs.size();
-        r.diag.rowsUsed = c.used;
-        for (auto& [k, v] : c.dropped) r.diag.drop(k, v);
+        r.diag.rowsIn = bp.size();
+        r.diag.rowsUsed = r.pairCounts.used;
+        for (auto& [k, v] : r.pairCounts.dropped) r.diag.drop(k, v);
     }
-    r.pairs = std::move(bp.pairs);
 }
 
-RepeatSalesResult runEstimate(BuiltPairs bp, const RepeatSalesOptions& o, bool forAudit) {
+RepeatSalesResult runEstimate(BuiltPairs bp, const RepeatSalesOptions& o, bool forAudit,
+                              PairAudit* audit) {
     RepeatSalesResult r;
     try {
         Estimator(bp, o, r).run();
     } catch (const InputError& e) {
         if (!forAudit) throw;
         r = RepeatSalesResult{};
-        for (std::size_t i = 0; i < bp.pairs.size(); ++i) {
-            SalePair& p = bp.pairs[i];
-            p.used = false;
-            p.weight = 0;
-            if (bp.candidate[i]) {
-                p.status = PairStatus::NotEstimated;
-                p.reason = rs_detail::statusText(PairStatus::NotEstimated, o);
+        // Pairs that passed the filters (or were judged by the failed estimate).
+        for (std::size_t i = 0; i < bp.size(); ++i) {
+            bp.weight[i] = 0;
+            switch (bp.status[i]) {
+                case PairStatus::Used:
+                case PairStatus::NotLinked:
+                case PairStatus::ChainUnreached:
+                case PairStatus::ThinPeriod: bp.status[i] = PairStatus::NotEstimated; break;
+                default: break;
             }
         }
         r.diag.warn(std::string("index not estimated: ") + e.what());
     }
-    finish(bp, r);
+    finish(bp, o, r);
+    if (audit) {
+        audit->pairs = rs_detail::auditRows(bp, o);
+        audit->counts = r.pairCounts;
+        audit->diag = r.diag;
+    }
     return r;
 }
 
@@ -710,26 +711,23 @@ std::string RepeatSalesResult::summary() const {
 }
 
 RepeatSalesResult repeatSalesIndex(const RepeatSalesInput& input,
-                                   const RepeatSalesOptions& options) {
+                                   const RepeatSalesOptions& options, PairAudit* audit) {
     rs_detail::validateOptions(options);
-    return runEstimate(rs_detail::buildPairsFromSales(input, options), options, false);
+    return runEstimate(rs_detail::buildPairsFromSales(input, options), options, false, audit);
 }
 
 PairAudit repeatSalesPairs(const RepeatSalesInput& input, const RepeatSalesOptions& options) {
     rs_detail::validateOptions(options);
-    RepeatSalesResult r =
-        runEstimate(rs_detail::buildPairsFromSales(input, options), options, true);
     PairAudit a;
-    a.pairs = std::move(r.pairs);
-    a.counts = std::move(r.pairCounts);
-    a.diag = std::move(r.diag);
+    runEstimate(rs_detail::buildPairsFromSales(input, options), options, true, &a);
     return a;
 }
 
 RepeatSalesResult repeatSalesFromPairs(const RepeatSalesPairInput& input,
-                                       const RepeatSalesOptions& options) {
+                                       const RepeatSalesOptions& options, PairAudit* audit) {
     rs_detail::validateOptions(options);
-    return runEstimate(rs_detail::buildPairsFromPairInput(input, options), options, false);
+    return runEstimate(rs_detail::buildPairsFromPairInput(input, options), options, false,
+                       audit);
 }
 
 }  // namespace lintel

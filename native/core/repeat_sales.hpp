@@ -53,8 +53,9 @@ struct RepeatSalesInput {
                                  // dropped, the next pair starts from this sale
 };
 
-// Canonical text of a numeric id cell: integers without a decimal point ("123", "-7"),
-// other numbers with up to 15 significant digits ("12.5"); NaN gives "" (blank id).
+// Canonical text of a numeric id cell: the shortest text that reads back as the same number
+// ("123", "-7", "12.5", "1e+16"; fmt's "{}" form, as the add-in's cellKey), -0 as "0"; NaN
+// gives "" (blank id).
 std::string propertyIdFromNumber(double value);
 
 struct RepeatSalesOptions : IndexOptions {
@@ -127,40 +128,46 @@ struct RepeatSalesVarianceModel {
 struct RepeatSalesResult {
     IndexTable table;   // count = used pairs whose second sale is in the period
     Diagnostics diag;   // rows: used = in at least one used pair; pair reasons in pairCounts
-    std::vector<SalePair> pairs;  // the audit, grouped by id (in order of first appearance)
-                                  // then by date
     PairCounts pairCounts;
     RepeatSalesVarianceModel variance;
     std::vector<double> logIndex;   // b_t - b_base per period; kNoValue where no value
     std::vector<double> logSe;      // standard error of b_t - b_base
     std::vector<double> df;         // residual degrees of freedom behind each band
-    double scale = kNoValue;        // residual variance of the final stage (chain 0)
+    double scale = kNoValue;        // residual variance of the final stage
     std::string summary() const;    // diag.summary() + "; " + pairCounts.summary()
 };
 
-// CHAINRS: the index with its audit. Throws InputError when no index can be built (no
-// usable pair, base outside the data or without a value, invalid options).
-RepeatSalesResult repeatSalesIndex(const RepeatSalesInput& input,
-                                   const RepeatSalesOptions& options);
-
-// RSPAIRS: the audit table under the same filters and options. Does not throw when the index
-// itself cannot be built: the pairs that passed the filters are then marked NotEstimated and
-// the reason is in diag.warnings. Throws InputError only for invalid options or columns.
+// The audit table (RSPAIRS): one row per pair, grouped by id (in order of first appearance)
+// then by date; a duplicate sale follows the pair that ends at the sale it duplicates.
 struct PairAudit {
     std::vector<SalePair> pairs;
     PairCounts counts;
     Diagnostics diag;
 };
+
+// CHAINRS: the index. Throws InputError when no index can be built (no usable pair, base
+// outside the data or without a value, invalid options). When `audit` is given it also
+// receives the pair audit of this very estimate (building it costs time: CHAINRS does not).
+RepeatSalesResult repeatSalesIndex(const RepeatSalesInput& input,
+                                   const RepeatSalesOptions& options,
+                                   PairAudit* audit = nullptr);
+
+// RSPAIRS: the audit table under the same filters and options. Does not throw when the index
+// itself cannot be built: the pairs that passed the filters are then marked NotEstimated and
+// the reason is in diag.warnings. Throws InputError only for invalid options or columns.
 PairAudit repeatSalesPairs(const RepeatSalesInput& input, const RepeatSalesOptions& options);
 
-// Pairs given directly (one entry per pair; first and second sale of one property). The same
-// filters (except changed), estimators and output as repeatSalesIndex; ids are optional.
+// Pairs given directly (one entry per pair; first and second sale of one property; a pair
+// whose second date is the earlier is turned round). The same filters (except changed),
+// estimators and output as repeatSalesIndex; ids are optional (shown in the audit only).
+// Each pair counts as one row in diag.
 struct RepeatSalesPairInput {
-    std::vector<std::string> id;  // empty, or one per pair (shown in the audit only)
+    std::vector<std::string> id;  // empty, or one per pair
     std::vector<double> firstDate, firstPrice, secondDate, secondPrice;
 };
 RepeatSalesResult repeatSalesFromPairs(const RepeatSalesPairInput& input,
-                                       const RepeatSalesOptions& options);
+                                       const RepeatSalesOptions& options,
+                                       PairAudit* audit = nullptr);
 
 // Reason texts of the row-level drops added by the repeat-sales estimators.
 namespace reason {

@@ -2,34 +2,50 @@
 // repeat_sales.cpp (estimators). Not part of the public API.
 #pragma once
 
+#include <cstdint>
 #include <optional>
+#include <string_view>
 #include <vector>
 
 #include "repeat_sales.hpp"
 
 namespace lintel::rs_detail {
 
-// Pairs in audit order with what the estimators need beside each.
+// Why a sale of a pair is unusable (the text after "first sale: " / "second sale: ").
+enum class SaleProblem : std::uint8_t { None, BadDate, BadPrice, NonPositivePrice, Excluded };
+
+// Pairs in audit order as plain columns (the audit rows with their texts are only built
+// when asked for: CHAINRS does not need them).
 struct BuiltPairs {
-    std::vector<SalePair> pairs;
-    std::vector<long> key1, key2;   // period keys of the two sales (set for candidates)
-    std::vector<char> candidate;    // passed every filter: goes on to the estimator
-    std::vector<char> realPair;     // 0 for the duplicate-sale rows listed as pseudo pairs
-    Diagnostics diag;               // row-level drops so far
-    bool fromRows = true;           // false: built from RepeatSalesPairInput
-    std::vector<char> rowUsable;    // per input row: usable and not a dropped duplicate
-    std::optional<PeriodAxis> axis; // periods spanned by the usable sales, if any
+    std::vector<std::size_t> firstRow, secondRow;  // input rows (pair input: the pair)
+    std::vector<std::uint32_t> group;              // index into ids
+    std::vector<long> key1, key2;                  // period keys (set when both usable)
+    std::vector<double> y;                         // ln(P2 / P1) (set when both usable)
+    std::vector<double> months, rate;              // months held, annualised log return
+    std::vector<PairStatus> status;                // Used = candidate until estimated
+    std::vector<SaleProblem> problem;              // for First/SecondSaleUnusable
+    std::vector<char> realPair;                    // 0: a duplicate listed as a pseudo pair
+    std::vector<char> swapped;                     // pair input: the dates were reversed
+    std::vector<double> weight;                    // final-stage weight, mean 1 over used
+    std::vector<std::string_view> ids;             // trimmed id per group (views of input)
+
+    Diagnostics diag;                // row-level drops so far
+    const RepeatSalesInput* sales = nullptr;        // the source (one of the two)
+    const RepeatSalesPairInput* pairInput = nullptr;
+    std::vector<char> rowUsable;     // per input row: usable and not a dropped duplicate
+    std::optional<PeriodAxis> axis;  // periods spanned by the usable sales, if any
+
+    std::size_t size() const { return status.size(); }
 };
 
 void validateOptions(const RepeatSalesOptions& o);
 BuiltPairs buildPairsFromSales(const RepeatSalesInput& in, const RepeatSalesOptions& o);
 BuiltPairs buildPairsFromPairInput(const RepeatSalesPairInput& in, const RepeatSalesOptions& o);
 
-// Completed calendar months from one serial day to a later one: 12 (y2 - y1) + (m2 - m1),
-// minus one when the day of month of the second is smaller than that of the first.
-int completedMonths(double fromSerial, double toSerial);
-
-// Reason text of a filter status (the add-in and the audit show it).
+// Reason text of pair i ("" when used).
+std::string reasonText(const BuiltPairs& bp, std::size_t i, const RepeatSalesOptions& o);
 std::string statusText(PairStatus s, const RepeatSalesOptions& o);
+// The audit rows.
+std::vector<SalePair> auditRows(const BuiltPairs& bp, const RepeatSalesOptions& o);
 
 }  // namespace lintel::rs_detail

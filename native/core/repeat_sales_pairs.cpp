@@ -3,7 +3,7 @@
 //
 // Building is a grouping by id (ids numbered in order of first appearance, rows bucketed by
 // that number: a stable counting sort) followed by a sort of each property's rows by
-// (day, row). Consecutive sales of one property form a pair.
+// (day, row): together a sort by (id, date). Consecutive sales of one property form a pair.
 #include <algorithm>
 #include <cctype>
 #include <cmath>
@@ -18,6 +18,9 @@ namespace lintel {
 
 namespace {
 
+using rs_detail::BuiltPairs;
+using rs_detail::SaleProblem;
+
 std::string_view trimmed(std::string_view s) {
     std::size_t a = 0, b = s.size();
     while (a < b && std::isspace(static_cast<unsigned char>(s[a]))) ++a;
@@ -26,20 +29,77 @@ std::string_view trimmed(std::string_view s) {
 }
 
 // Why a row with a usable id and date was not usable (screenSales' order of checks).
-const std::string& unusableRowReason(double price) {
-    if (!std::isfinite(price)) return reason::kBadPrice;
-    if (price <= 0) return reason::kNonPositivePrice;
-    return reason::kExcluded;
+SaleProblem rowProblem(double price) {
+    if (!std::isfinite(price)) return SaleProblem::BadPrice;
+    if (price <= 0) return SaleProblem::NonPositivePrice;
+    return SaleProblem::Excluded;
 }
 
-double annualisedLogReturn(double p1, double p2, double days) {
-    if (!(std::isfinite(p1) && std::isfinite(p2) && p1 > 0 && p2 > 0 && days > 0))
-        return kNoValue;
-    return std::log(p2 / p1) * 365.25 / days;
+const std::string& problemText(SaleProblem p) {
+    switch (p) {
+        case SaleProblem::BadDate: return reason::kBadDate;
+        case SaleProblem::BadPrice: return reason::kBadPrice;
+        case SaleProblem::NonPositivePrice: return reason::kNonPositivePrice;
+        case SaleProblem::Excluded: return reason::kExcluded;
+        case SaleProblem::None: break;
+    }
+    static const std::string none;
+    return none;
 }
 
-// Applies the filters that do not depend on the estimate to a pair whose two sales are
-// usable. Returns Used when the pair goes on to the estimator.
+// Period key of a civil date: the same numbering as periodKey (periods.hpp), from a date
+// already converted (each sale is converted once).
+long keyOf(const CivilDate& d, Frequency f) {
+    switch (f) {
+        case Frequency::Month: return static_cast<long>(d.year) * 12 + (d.month - 1);
+        case Frequency::Quarter: return static_cast<long>(d.year) * 4 + (d.month - 1) / 3;
+        case Frequency::Year: return d.year;
+    }
+    return 0;
+}
+
+// Civil dates of whole-day serials through a table over the span of the data (sales fall
+// on a few thousand distinct days; the conversion is the costly part of pair building).
+class CivilDays {
+public:
+    // `days`: the serial days to convert (floored, usable); spans above ~550 years are
+    // converted one by one.
+    explicit CivilDays(const std::vector<double>& days) {
+        double lo = 0, hi = -1;
+        for (double d : days) {
+            if (hi < lo) lo = hi = d;
+            lo = std::min(lo, d);
+            hi = std::max(hi, d);
+        }
+        if (hi >= lo && hi - lo < 200000) {
+            first_ = lo;
+            table_.resize(static_cast<std::size_t>(hi - lo) + 1);
+            for (std::size_t i = 0; i < table_.size(); ++i)
+                table_[i] = civilFromSerial(lo + static_cast<double>(i));
+        }
+    }
+    CivilDate operator()(double day) const {
+        const double k = day - first_;
+        if (!table_.empty() && k >= 0 && k < static_cast<double>(table_.size()))
+            return table_[static_cast<std::size_t>(k)];
+        return civilFromSerial(day);
+    }
+
+private:
+    double first_ = 0;
+    std::vector<CivilDate> table_;
+};
+
+// Completed calendar months: 12 (y2 - y1) + (m2 - m1), one less when the second day of
+// month is smaller than the first.
+int monthsBetween(const CivilDate& a, const CivilDate& b) {
+    int m = 12 * (b.year - a.year) + (b.month - a.month);
+    if (b.day < a.day) --m;
+    return m;
+}
+
+// The filters that do not depend on the estimate, for a pair whose two sales are usable.
+// Returns Used when the pair goes on to the estimator.
 PairStatus filterPair(long key1, long key2, double months, double rate, bool changedAtSecond,
                       const RepeatSalesOptions& o) {
     if (changedAtSecond) return PairStatus::Changed;
@@ -47,6 +107,59 @@ PairStatus filterPair(long key1, long key2, double months, double rate, bool cha
     if (o.minHoldMonths > 0 && months < o.minHoldMonths) return PairStatus::ShortHold;
     if (o.maxRate > 0 && std::fabs(rate) > o.maxRate) return PairStatus::ExtremeReturn;
     return PairStatus::Used;
+}
+
+void reserve(BuiltPairs& b, std::size_t n) {
+    b.firstRow.reserve(n);
+    b.secondRow.reserve(n);
+    b.group.reserve(n);
+    b.key1.reserve(n);
+    b.key2.reserve(n);
+    b.y.reserve(n);
+    b.months.reserve(n);
+    b.rate.reserve(n);
+    b.status.reserve(n);
+    b.problem.reserve(n);
+    b.realPair.reserve(n);
+}
+
+// Appends a pair of two sales given by day, civil date, price and usability; fills the
+// filter status. Returns its index.
+std::size_t addPair(BuiltPairs& b, std::size_t rowA, std::size_t rowB, std::uint32_t group,
+                    double dayA, double dayB, const CivilDate& ca, const CivilDate& cb,
+                    double pa, double pb, SaleProblem probA, SaleProblem probB, bool changed,
+                    const RepeatSalesOptions& o) {
+    b.firstRow.push_back(rowA);
+    b.secondRow.push_back(rowB);
+    b.group.push_back(group);
+    b.realPair.push_back(1);
+    b.problem.push_back(SaleProblem::None);
+    const bool datesOk = probA != SaleProblem::BadDate && probB != SaleProblem::BadDate;
+    b.months.push_back(datesOk ? monthsBetween(ca, cb) : kNoValue);
+    double y = kNoValue, rate = kNoValue;
+    if (std::isfinite(pa) && std::isfinite(pb) && pa > 0 && pb > 0) {
+        y = std::log(pb / pa);
+        if (datesOk && dayB > dayA) rate = y * 365.25 / (dayB - dayA);
+    }
+    b.y.push_back(y);
+    b.rate.push_back(rate);
+    long k1 = 0, k2 = 0;
+    PairStatus st;
+    if (probA != SaleProblem::None) {
+        st = PairStatus::FirstSaleUnusable;
+        b.problem.back() = probA;
+    } else if (probB != SaleProblem::None) {
+        st = PairStatus::SecondSaleUnusable;
+        b.problem.back() = probB;
+    } else {
+        k1 = keyOf(ca, o.freq);
+        k2 = keyOf(cb, o.freq);
+        st = filterPair(k1, k2, b.months.back(), rate, changed, o);
+    }
+    b.key1.push_back(k1);
+    b.key2.push_back(k2);
+    b.status.push_back(st);
+    return b.status.size() - 1;
 }
 
 }  // namespace
@@ -71,22 +184,12 @@ const char* repeatSalesMethodCode(RepeatSalesMethod m) {
 
 std::string propertyIdFromNumber(double v) {
     if (!std::isfinite(v)) return "";
-    if (v == std::floor(v) && std::fabs(v) < 1e15) {
-        if (v == 0) return "0";  // also -0
-        return fmt::format("{:.0f}", v);
-    }
-    std::string s = fmt::format("{:.15g}", v);
-    return s;
+    if (v == 0) return "0";  // -0 too
+    // Shortest round-trip form, the same as the add-in's cellKey for number cells.
+    return fmt::format("{}", v);
 }
 
 namespace rs_detail {
-
-int completedMonths(double fromSerial, double toSerial) {
-    const CivilDate a = civilFromSerial(fromSerial), b = civilFromSerial(toSerial);
-    int m = 12 * (b.year - a.year) + (b.month - a.month);
-    if (b.day < a.day) --m;
-    return m;
-}
 
 std::string statusText(PairStatus s, const RepeatSalesOptions& o) {
     switch (s) {
@@ -106,6 +209,61 @@ std::string statusText(PairStatus s, const RepeatSalesOptions& o) {
         case PairStatus::NotEstimated: return "index not estimated";
     }
     return "";
+}
+
+std::string reasonText(const BuiltPairs& bp, std::size_t i, const RepeatSalesOptions& o) {
+    switch (bp.status[i]) {
+        case PairStatus::FirstSaleUnusable: return "first sale: " + problemText(bp.problem[i]);
+        case PairStatus::SecondSaleUnusable: return "second sale: " + problemText(bp.problem[i]);
+        default: return statusText(bp.status[i], o);
+    }
+}
+
+std::vector<SalePair> auditRows(const BuiltPairs& bp, const RepeatSalesOptions& o) {
+    std::vector<SalePair> out(bp.size());
+    // Reason texts are the same for many pairs: build each (status, problem) text once.
+    std::vector<std::string> cache(64);
+    std::vector<char> cached(64, 0);
+    for (std::size_t i = 0; i < bp.size(); ++i) {
+        SalePair& p = out[i];
+        p.id = std::string(bp.ids.empty() ? std::string_view() : bp.ids[bp.group[i]]);
+        p.firstRow = bp.firstRow[i];
+        p.secondRow = bp.secondRow[i];
+        if (bp.sales) {
+            const SalesInput& s = bp.sales->sales;
+            p.firstDate = s.date[p.firstRow];
+            p.firstPrice = s.price[p.firstRow];
+            p.secondDate = s.date[p.secondRow];
+            p.secondPrice = s.price[p.secondRow];
+        } else {
+            const RepeatSalesPairInput& q = *bp.pairInput;
+            p.firstDate = q.firstDate[i];
+            p.firstPrice = q.firstPrice[i];
+            p.secondDate = q.secondDate[i];
+            p.secondPrice = q.secondPrice[i];
+            if (bp.swapped[i]) {
+                std::swap(p.firstDate, p.secondDate);
+                std::swap(p.firstPrice, p.secondPrice);
+            }
+        }
+        p.monthsHeld = bp.months[i];
+        p.annualRate = bp.rate[i];
+        p.status = bp.status[i];
+        p.used = p.status == PairStatus::Used;
+        p.weight = p.used ? bp.weight[i] : 0.0;
+        const std::size_t key = static_cast<std::size_t>(p.status) * 5 +
+                                static_cast<std::size_t>(bp.problem[i]);
+        if (key < cache.size()) {
+            if (!cached[key]) {
+                cache[key] = reasonText(bp, i, o);
+                cached[key] = 1;
+            }
+            p.reason = cache[key];
+        } else {
+            p.reason = reasonText(bp, i, o);
+        }
+    }
+    return out;
 }
 
 void validateOptions(const RepeatSalesOptions& o) {
@@ -135,7 +293,7 @@ BuiltPairs buildPairsFromSales(const RepeatSalesInput& in, const RepeatSalesOpti
         throw InputError("internal: emptyRow differs in length from the sales");
 
     BuiltPairs out;
-    out.fromRows = true;
+    out.sales = &in;
 
     // Row validity: screenSales (blank id is the extra check). It throws when no row is
     // usable; the audit is still built then (every pair shows why it was dropped).
@@ -151,7 +309,7 @@ BuiltPairs buildPairsFromSales(const RepeatSalesInput& in, const RepeatSalesOpti
         for (std::size_t r : sc.rows) usable[r] = 1;
         out.axis = sc.axis;
     } catch (const InputError&) {
-        // diag counts were set before the throw; no usable row, no axis.
+        // The counts were set before the throw; no usable row, so no axis.
     }
 
     // Rows that take part in the sequence of their property: a usable id and date.
@@ -167,7 +325,10 @@ BuiltPairs buildPairsFromSales(const RepeatSalesInput& in, const RepeatSalesOpti
     for (std::size_t i = 0; i < n; ++i) {
         if (!sequenced(i)) continue;
         auto [it, fresh] = code.try_emplace(ids[i], static_cast<std::uint32_t>(groupSize.size()));
-        if (fresh) groupSize.push_back(0);
+        if (fresh) {
+            groupSize.push_back(0);
+            out.ids.push_back(ids[i]);
+        }
         rowCode[i] = it->second;
         ++groupSize[it->second];
     }
@@ -182,42 +343,25 @@ BuiltPairs buildPairsFromSales(const RepeatSalesInput& in, const RepeatSalesOpti
             if (rowCode[i] != UINT32_MAX) order[fill[rowCode[i]]++] = i;
     }
 
-    std::vector<double> day(n, 0.0);
+    std::vector<double> day(n, 0.0), sequencedDays;
+    sequencedDays.reserve(order.size());
     for (std::size_t i = 0; i < n; ++i)
-        if (rowCode[i] != UINT32_MAX) day[i] = std::floor(s.date[i]);
+        if (rowCode[i] != UINT32_MAX) {
+            day[i] = std::floor(s.date[i]);
+            sequencedDays.push_back(day[i]);
+        }
+    const CivilDays civilOf(sequencedDays);
+    std::vector<CivilDate> civil(n);
+    for (std::size_t i = 0; i < n; ++i)
+        if (rowCode[i] != UINT32_MAX) civil[i] = civilOf(day[i]);
 
     out.rowUsable = usable;
-    const std::size_t expected = order.size() > groups ? order.size() - groups : 0;
-    out.pairs.reserve(expected);
-    out.key1.reserve(expected);
-    out.key2.reserve(expected);
-    out.candidate.reserve(expected);
-    out.realPair.reserve(expected);
-
-    auto rowReason = [&](std::size_t r) -> const std::string& {
-        return unusableRowReason(s.price[r]);
-    };
-    auto addPair = [&](std::size_t a, std::size_t b, std::string_view id) -> SalePair& {
-        SalePair p;
-        p.id = std::string(id);
-        p.firstRow = a;
-        p.secondRow = b;
-        p.firstDate = s.date[a];
-        p.firstPrice = s.price[a];
-        p.secondDate = s.date[b];
-        p.secondPrice = s.price[b];
-        const double days = day[b] - day[a];
-        p.monthsHeld = completedMonths(day[a], day[b]);
-        p.annualRate = annualisedLogReturn(p.firstPrice, p.secondPrice, days);
-        out.pairs.push_back(std::move(p));
-        out.key1.push_back(0);
-        out.key2.push_back(0);
-        out.candidate.push_back(0);
-        out.realPair.push_back(1);
-        return out.pairs.back();
+    reserve(out, order.size() > groups ? order.size() - groups : 0);
+    auto problem = [&](std::size_t r) {
+        return usable[r] ? SaleProblem::None : rowProblem(s.price[r]);
     };
 
-    std::vector<std::size_t> kept;  // one property's sales after dropping duplicates
+    std::size_t prevKept = 0;
     for (std::size_t g = 0; g < groups; ++g) {
         auto first = order.begin() + static_cast<std::ptrdiff_t>(start[g]);
         auto last = order.begin() + static_cast<std::ptrdiff_t>(start[g + 1]);
@@ -225,8 +369,8 @@ BuiltPairs buildPairsFromSales(const RepeatSalesInput& in, const RepeatSalesOpti
             std::sort(first, last, [&](std::size_t a, std::size_t b) {
                 return day[a] != day[b] ? day[a] < day[b] : a < b;
             });
-        const std::string_view id = ids[*first];
-        kept.clear();
+        const std::uint32_t gid = static_cast<std::uint32_t>(g);
+        bool havePrev = false;
         // Walk the sales day by day; on one day keep the first usable row in input order (or
         // the first row when none is usable), list the others as duplicate pseudo pairs.
         for (auto it = first; it != last;) {
@@ -234,45 +378,36 @@ BuiltPairs buildPairsFromSales(const RepeatSalesInput& in, const RepeatSalesOpti
             while (runEnd != last && day[*runEnd] == day[*it]) ++runEnd;
             std::size_t keep = *it;
             for (auto j = it; j != runEnd; ++j)
-                if (usable[*j]) { keep = *j; break; }
-            bool changed = false;
-            for (auto j = it; j != runEnd; ++j)
-                if (!in.changed.empty() && in.changed[*j]) changed = true;
-            // Pair from the previous kept sale to this one.
-            if (!kept.empty()) {
-                const std::size_t a = kept.back(), b = keep;
-                SalePair& p = addPair(a, b, id);
-                const std::size_t k = out.pairs.size() - 1;
-                if (!usable[a]) {
-                    p.status = PairStatus::FirstSaleUnusable;
-                    p.reason = "first sale: " + rowReason(a);
-                } else if (!usable[b]) {
-                    p.status = PairStatus::SecondSaleUnusable;
-                    p.reason = "second sale: " + rowReason(b);
-                } else {
-                    out.key1[k] = periodKey(s.date[a], o.freq);
-                    out.key2[k] = periodKey(s.date[b], o.freq);
-                    p.status = filterPair(out.key1[k], out.key2[k], p.monthsHeld, p.annualRate,
-                                          changed, o);
-                    if (p.status == PairStatus::Used) out.candidate[k] = 1;
-                    else p.reason = statusText(p.status, o);
+                if (usable[*j]) {
+                    keep = *j;
+                    break;
                 }
+            bool changed = false;
+            if (!in.changed.empty())
+                for (auto j = it; j != runEnd; ++j) changed = changed || in.changed[*j];
+            if (havePrev) {
+                const std::size_t a = prevKept, b = keep;
+                addPair(out, a, b, gid, day[a], day[b], civil[a], civil[b], s.price[a],
+                        s.price[b], problem(a), problem(b), changed, o);
             }
             for (auto j = it; j != runEnd; ++j) {
                 if (*j == keep) continue;
-                SalePair& p = addPair(keep, *j, id);
-                p.status = PairStatus::Duplicate;
-                p.reason = reason::kDuplicateSale;
+                addPair(out, keep, *j, gid, day[keep], day[*j], civil[keep], civil[*j],
+                        s.price[keep], s.price[*j], SaleProblem::None, SaleProblem::None, false,
+                        o);
+                out.status.back() = PairStatus::Duplicate;
                 out.realPair.back() = 0;
                 if (usable[*j]) {
                     out.rowUsable[*j] = 0;
                     out.diag.drop(reason::kDuplicateSale);
                 }
             }
-            kept.push_back(keep);
+            prevKept = keep;
+            havePrev = true;
             it = runEnd;
         }
     }
+    out.weight.assign(out.size(), 0.0);
     return out;
 }
 
@@ -282,59 +417,57 @@ BuiltPairs buildPairsFromPairInput(const RepeatSalesPairInput& in, const RepeatS
         (!in.id.empty() && in.id.size() != n))
         throw InputError("the pair columns must have the same number of rows");
     BuiltPairs out;
-    out.fromRows = false;
+    out.pairInput = &in;
     out.diag.rowsIn = n;
-    out.pairs.resize(n);
-    out.key1.assign(n, 0);
-    out.key2.assign(n, 0);
-    out.candidate.assign(n, 0);
-    out.realPair.assign(n, 1);
+    reserve(out, n);
+    out.swapped.assign(n, 0);
+    auto problem = [](double d, double p) {
+        if (!isUsableSerial(d)) return SaleProblem::BadDate;
+        if (!std::isfinite(p)) return SaleProblem::BadPrice;
+        if (p <= 0) return SaleProblem::NonPositivePrice;
+        return SaleProblem::None;
+    };
+    if (!in.id.empty()) {
+        out.ids.resize(n);
+        for (std::size_t i = 0; i < n; ++i) out.ids[i] = trimmed(in.id[i]);
+    }
+    std::vector<double> days;
+    days.reserve(2 * n);
+    for (std::size_t i = 0; i < n; ++i) {
+        if (isUsableSerial(in.firstDate[i])) days.push_back(std::floor(in.firstDate[i]));
+        if (isUsableSerial(in.secondDate[i])) days.push_back(std::floor(in.secondDate[i]));
+    }
+    const CivilDays civilOf(days);
     long minKey = 0, maxKey = 0;
     bool any = false;
-    auto saleReason = [](double d, double p) -> const std::string* {
-        if (!isUsableSerial(d)) return &reason::kBadDate;
-        if (!std::isfinite(p)) return &reason::kBadPrice;
-        if (p <= 0) return &reason::kNonPositivePrice;
-        return nullptr;
-    };
     for (std::size_t i = 0; i < n; ++i) {
-        SalePair& p = out.pairs[i];
-        if (!in.id.empty()) p.id = std::string(trimmed(in.id[i]));
-        p.firstRow = p.secondRow = i;
         double d1 = in.firstDate[i], p1 = in.firstPrice[i];
         double d2 = in.secondDate[i], p2 = in.secondPrice[i];
+        const bool ok1 = isUsableSerial(d1), ok2 = isUsableSerial(d2);
         // The earlier sale is the first one.
-        if (isUsableSerial(d1) && isUsableSerial(d2) && std::floor(d2) < std::floor(d1)) {
+        if (ok1 && ok2 && std::floor(d2) < std::floor(d1)) {
             std::swap(d1, d2);
             std::swap(p1, p2);
+            out.swapped[i] = 1;
         }
-        p.firstDate = d1;
-        p.firstPrice = p1;
-        p.secondDate = d2;
-        p.secondPrice = p2;
-        if (const std::string* r = saleReason(d1, p1)) {
-            p.status = PairStatus::FirstSaleUnusable;
-            p.reason = "first sale: " + *r;
-            continue;
+        const double a = ok1 ? std::floor(d1) : 0, b = ok2 ? std::floor(d2) : 0;
+        const CivilDate ca = ok1 ? civilOf(a) : CivilDate{};
+        const CivilDate cb = ok2 ? civilOf(b) : CivilDate{};
+        addPair(out, i, i, static_cast<std::uint32_t>(in.id.empty() ? 0 : i), a, b, ca, cb, p1,
+                p2, problem(d1, p1), problem(d2, p2), false, o);
+        if (ok1 && ok2 && out.problem.back() == SaleProblem::None) {
+            const long k1 = keyOf(ca, o.freq), k2 = keyOf(cb, o.freq);
+            if (!any) {
+                minKey = k1;
+                maxKey = k2;
+                any = true;
+            }
+            minKey = std::min(minKey, k1);
+            maxKey = std::max(maxKey, k2);
         }
-        if (const std::string* r = saleReason(d2, p2)) {
-            p.status = PairStatus::SecondSaleUnusable;
-            p.reason = "second sale: " + *r;
-            continue;
-        }
-        const double days = std::floor(d2) - std::floor(d1);
-        p.monthsHeld = completedMonths(d1, d2);
-        p.annualRate = annualisedLogReturn(p1, p2, days);
-        out.key1[i] = periodKey(d1, o.freq);
-        out.key2[i] = periodKey(d2, o.freq);
-        if (!any) { minKey = out.key1[i]; maxKey = out.key2[i]; any = true; }
-        minKey = std::min(minKey, out.key1[i]);
-        maxKey = std::max(maxKey, out.key2[i]);
-        p.status = filterPair(out.key1[i], out.key2[i], p.monthsHeld, p.annualRate, false, o);
-        if (p.status == PairStatus::Used) out.candidate[i] = 1;
-        else p.reason = statusText(p.status, o);
     }
     if (any) out.axis = PeriodAxis::spanning(minKey, maxKey, o.freq);
+    out.weight.assign(out.size(), 0.0);
     return out;
 }
 

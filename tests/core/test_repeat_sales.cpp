@@ -75,7 +75,8 @@ BOOST_AUTO_TEST_CASE(hand_solved_three_periods_bmn) {
     //   95 % band of 2021: t(1) quantile 0.975 = 12.7062047 (any t table), so
     //   100 exp(0.11 -/+ 12.7062047 * 0.0141421356) = 93.26802, 133.60171
     Sales s = handExample();
-    const RepeatSalesResult r = repeatSalesIndex(s.in, yearly());
+    PairAudit r_audit;
+    const RepeatSalesResult r = repeatSalesIndex(s.in, yearly(), &r_audit);
     BOOST_REQUIRE_EQUAL(r.table.axis.count, 3);
     BOOST_TEST(r.table.index[0] == 100.0);
     BOOST_TEST(r.logIndex[1] == 0.11, boost::test_tools::tolerance(1e-12));
@@ -94,20 +95,21 @@ BOOST_AUTO_TEST_CASE(hand_solved_three_periods_bmn) {
     BOOST_TEST(r.table.count[2] == 2u);
     BOOST_TEST(r.pairCounts.used == 3u);
     BOOST_TEST(r.diag.rowsUsed == 6u);
-    for (const SalePair& p : r.pairs) BOOST_TEST(p.weight == 1.0);
+    for (const SalePair& p : r_audit.pairs) BOOST_TEST(p.weight == 1.0);
 }
 
 BOOST_AUTO_TEST_CASE(hand_solved_case_shiller_equal_residuals) {
     // Same data, method cs: the squared stage-1 residuals are all 1e-4, so the stage-2 OLS
     // on (1, years) has slope 0 and intercept 1e-4: equal weights, the same values as BMN.
     Sales s = handExample();
-    const RepeatSalesResult r = repeatSalesIndex(s.in, yearly(RepeatSalesMethod::CaseShiller));
+    PairAudit r_audit;
+    const RepeatSalesResult r = repeatSalesIndex(s.in, yearly(RepeatSalesMethod::CaseShiller), &r_audit);
     BOOST_TEST(r.logIndex[1] == 0.11, boost::test_tools::tolerance(1e-10));
     BOOST_TEST(r.logIndex[2] == 0.17, boost::test_tools::tolerance(1e-10));
     BOOST_REQUIRE_EQUAL(r.variance.coef.size(), 2u);
     BOOST_TEST(r.variance.coef[0] == 1e-4, boost::test_tools::tolerance(1e-8));
     BOOST_TEST(std::fabs(r.variance.coef[1]) < 1e-15);
-    for (const SalePair& p : r.pairs) BOOST_TEST(p.weight == 1.0, boost::test_tools::tolerance(1e-12));
+    for (const SalePair& p : r_audit.pairs) BOOST_TEST(p.weight == 1.0, boost::test_tools::tolerance(1e-12));
 }
 
 BOOST_AUTO_TEST_CASE(hand_solved_chain) {
@@ -160,11 +162,12 @@ BOOST_AUTO_TEST_CASE(every_filter_and_reason) {
     s.add("Z1", day(2018, 3, 1), 100).add("Z1", day(2019, 3, 1), 104);  // 38, 39 isolated
     s.add("Z2", day(2018, 5, 1), 100).add("Z2", day(2019, 6, 1), 103);  // 40, 41
     const RepeatSalesOptions o = yearly();
-    const RepeatSalesResult r = repeatSalesIndex(s.in, o);
+    PairAudit r_audit;
+    const RepeatSalesResult r = repeatSalesIndex(s.in, o, &r_audit);
 
     auto expect = [&](const std::string& id, std::size_t second, PairStatus st,
                       const std::string& why) {
-        const SalePair* p = findPair(r.pairs, id, second);
+        const SalePair* p = findPair(r_audit.pairs, id, second);
         BOOST_REQUIRE_MESSAGE(p, "pair " << id << " ending at row " << second);
         BOOST_TEST(static_cast<int>(p->status) == static_cast<int>(st), id);
         BOOST_TEST(p->reason == why, id);
@@ -184,18 +187,18 @@ BOOST_AUTO_TEST_CASE(every_filter_and_reason) {
     expect("Z1", 39, PairStatus::NotLinked, "not linked to the base period");
     expect("Z2", 41, PairStatus::NotLinked, "not linked to the base period");
     for (const char* k : {"K1", "K2", "K3", "K4", "K5", "K6", "K7", "K8"})
-        BOOST_TEST(findPair(r.pairs, k, 0) == nullptr);
-    BOOST_TEST(findPair(r.pairs, "J", 36) == nullptr);  // its other sale has no date
+        BOOST_TEST(findPair(r_audit.pairs, k, 0) == nullptr);
+    BOOST_TEST(findPair(r_audit.pairs, "J", 36) == nullptr);  // its other sale has no date
 
     // Audit columns of two pairs.
-    const SalePair* f = findPair(r.pairs, "F", 28);
+    const SalePair* f = findPair(r_audit.pairs, "F", 28);
     BOOST_TEST(f->monthsHeld == 3.0);
     BOOST_TEST(f->annualRate == std::log(1.01) * 365.25 / 92, boost::test_tools::tolerance(1e-12));
-    const SalePair* g = findPair(r.pairs, "G", 30);
+    const SalePair* g = findPair(r_audit.pairs, "G", 30);
     BOOST_TEST(g->monthsHeld == 7.0);
     BOOST_TEST(g->annualRate == std::log(2.0) * 365.25 / 212, boost::test_tools::tolerance(1e-12));
-    BOOST_TEST(std::fabs(findPair(r.pairs, "A", 17)->monthsHeld - 12.0) < 1e-12);
-    BOOST_TEST(!hasValue(findPair(r.pairs, "A", 17)->annualRate));
+    BOOST_TEST(std::fabs(findPair(r_audit.pairs, "A", 17)->monthsHeld - 12.0) < 1e-12);
+    BOOST_TEST(!hasValue(findPair(r_audit.pairs, "A", 17)->annualRate));
 
     // Counts. Rows: 42 in; screened out: bad price 1 (A), non-positive 1 (B), blank id 1,
     // excluded 1 (C), bad date 1 (J); duplicate 1 (H, row 33); used: 16 backbone + D 2 + H 2
@@ -223,10 +226,10 @@ BOOST_AUTO_TEST_CASE(every_filter_and_reason) {
 
     // RSPAIRS explains the same thing.
     const PairAudit a = repeatSalesPairs(s.in, o);
-    BOOST_REQUIRE_EQUAL(a.pairs.size(), r.pairs.size());
+    BOOST_REQUIRE_EQUAL(a.pairs.size(), r_audit.pairs.size());
     for (std::size_t i = 0; i < a.pairs.size(); ++i) {
-        BOOST_TEST(a.pairs[i].reason == r.pairs[i].reason);
-        BOOST_TEST(a.pairs[i].weight == r.pairs[i].weight);
+        BOOST_TEST(a.pairs[i].reason == r_audit.pairs[i].reason);
+        BOOST_TEST(a.pairs[i].weight == r_audit.pairs[i].weight);
     }
     BOOST_TEST(a.counts.used == 10u);
 
@@ -234,15 +237,17 @@ BOOST_AUTO_TEST_CASE(every_filter_and_reason) {
     RepeatSalesOptions off = o;
     off.minHoldMonths = 0;
     off.maxRate = 0;
-    const RepeatSalesResult r2 = repeatSalesIndex(s.in, off);
-    BOOST_TEST(findPair(r2.pairs, "F", 28)->used);
-    BOOST_TEST(findPair(r2.pairs, "G", 30)->used);
-    BOOST_TEST(!findPair(r2.pairs, "E", 26)->used);
+    PairAudit r2_audit;
+    const RepeatSalesResult r2 = repeatSalesIndex(s.in, off, &r2_audit);
+    BOOST_TEST(findPair(r2_audit.pairs, "F", 28)->used);
+    BOOST_TEST(findPair(r2_audit.pairs, "G", 30)->used);
+    BOOST_TEST(!findPair(r2_audit.pairs, "E", 26)->used);
     RepeatSalesOptions tight = o;
     tight.minHoldMonths = 13;  // 12-month holds are now flips
-    const RepeatSalesResult r3 = repeatSalesIndex(s.in, tight);
-    BOOST_TEST(findPair(r3.pairs, "K1", 1)->reason == "held less than 13 months");
-    BOOST_TEST(findPair(r3.pairs, "K5", 9)->used);
+    PairAudit r3_audit;
+    const RepeatSalesResult r3 = repeatSalesIndex(s.in, tight, &r3_audit);
+    BOOST_TEST(findPair(r3_audit.pairs, "K1", 1)->reason == "held less than 13 months");
+    BOOST_TEST(findPair(r3_audit.pairs, "K5", 9)->used);
 }
 
 BOOST_AUTO_TEST_CASE(ids_as_text_and_numbers) {
@@ -252,6 +257,8 @@ BOOST_AUTO_TEST_CASE(ids_as_text_and_numbers) {
     BOOST_TEST(propertyIdFromNumber(-0.0) == "0");
     BOOST_TEST(propertyIdFromNumber(12.5) == "12.5");
     BOOST_TEST(propertyIdFromNumber(123456789012345.0) == "123456789012345");
+    BOOST_TEST(propertyIdFromNumber(1e6) == "1000000");
+    BOOST_TEST(propertyIdFromNumber(0.1 + 0.2) == "0.30000000000000004");  // round-trip form
     BOOST_TEST(propertyIdFromNumber(NAN) == "");
     // The hand example with ids given as numbers (converted as the add-in does), as text with
     // blanks around, and as text: one index.
@@ -266,12 +273,13 @@ BOOST_AUTO_TEST_CASE(ids_as_text_and_numbers) {
     }
     const RepeatSalesResult a = repeatSalesIndex(num.in, yearly());
     const RepeatSalesResult b = repeatSalesIndex(text.in, yearly());
-    const RepeatSalesResult c = repeatSalesIndex(padded.in, yearly());
+    PairAudit c_audit;
+    const RepeatSalesResult c = repeatSalesIndex(padded.in, yearly(), &c_audit);
     for (int t = 0; t < 3; ++t) {
         BOOST_TEST(a.table.index[t] == b.table.index[t]);
         BOOST_TEST(c.table.index[t] == b.table.index[t]);
     }
-    BOOST_TEST(c.pairs[0].id == "101");
+    BOOST_TEST(c_audit.pairs[0].id == "101");
     BOOST_TEST(a.logIndex[1] == 0.11, boost::test_tools::tolerance(1e-12));
     // Ids are case-sensitive: "a" and "A" are two properties, each sold once.
     Sales cs;
@@ -293,20 +301,21 @@ BOOST_AUTO_TEST_CASE(duplicate_sales_of_one_id_on_one_date) {
     s.add("P", day(2021, 5, 5), 205, true);                     // 3
     s.add("P", day(2023, 2, 1), 230);                           // 4
     s.add("Q", day(2019, 2, 1), 100).add("Q", day(2021, 2, 1), 120).add("Q", day(2023, 2, 2), 140);
-    const RepeatSalesResult r = repeatSalesIndex(s.in, yearly());
-    const SalePair* in = findPair(r.pairs, "P", 2);
+    PairAudit r_audit;
+    const RepeatSalesResult r = repeatSalesIndex(s.in, yearly(), &r_audit);
+    const SalePair* in = findPair(r_audit.pairs, "P", 2);
     BOOST_REQUIRE(in);
     BOOST_TEST(in->firstRow == 0u);
     BOOST_TEST(in->reason == "property changed at the second sale");
-    const SalePair* d1 = findPair(r.pairs, "P", 1);
-    const SalePair* d3 = findPair(r.pairs, "P", 3);
+    const SalePair* d1 = findPair(r_audit.pairs, "P", 1);
+    const SalePair* d3 = findPair(r_audit.pairs, "P", 3);
     BOOST_REQUIRE(d1);
     BOOST_REQUIRE(d3);
     BOOST_TEST(d1->firstRow == 2u);
     BOOST_TEST(d3->firstRow == 2u);
     BOOST_TEST(d1->reason == reason::kDuplicateSale);
     BOOST_TEST(static_cast<int>(d3->status) == static_cast<int>(PairStatus::Duplicate));
-    const SalePair* out = findPair(r.pairs, "P", 4);
+    const SalePair* out = findPair(r_audit.pairs, "P", 4);
     BOOST_REQUIRE(out);
     BOOST_TEST(out->firstRow == 2u);  // the chain continues from the kept sale
     BOOST_TEST(out->used);
@@ -326,9 +335,10 @@ BOOST_AUTO_TEST_CASE(property_sold_many_times) {
     for (int i = 0; i < 6; ++i) s.add("M", day(years[i], 6, 1), price[i], changed[i]);
     for (int y = 2012; y < 2020; ++y)
         s.add("N" + std::to_string(y), day(y, 2, 1), 100).add("N" + std::to_string(y), day(y + 1, 3, 1), 104);
-    const RepeatSalesResult r = repeatSalesIndex(s.in, yearly());
+    PairAudit r_audit;
+    const RepeatSalesResult r = repeatSalesIndex(s.in, yearly(), &r_audit);
     std::vector<const SalePair*> m;
-    for (const SalePair& p : r.pairs)
+    for (const SalePair& p : r_audit.pairs)
         if (p.id == "M") m.push_back(&p);
     BOOST_REQUIRE_EQUAL(m.size(), 5u);
     // In date order: 2012 (row 1), 2013 (4), 2014 (2), 2016 (0), 2018 (3, changed), 2020 (5).
@@ -430,8 +440,9 @@ BOOST_AUTO_TEST_CASE(chain_unreached_and_thin_periods) {
     RepeatSalesOptions o = yearly();
     o.chain = 1;
     o.chainInit = 1;
-    const RepeatSalesResult r = repeatSalesIndex(s.in, o);
-    BOOST_TEST(findPair(r.pairs, "C", 5)->reason == "first sale in a period without a value");
+    PairAudit r_audit;
+    const RepeatSalesResult r = repeatSalesIndex(s.in, o, &r_audit);
+    BOOST_TEST(findPair(r_audit.pairs, "C", 5)->reason == "first sale in a period without a value");
     BOOST_TEST(!hasValue(r.table.index[3]));  // 2013: no pair ends there
     BOOST_TEST(hasValue(r.table.index[4]));
     BOOST_TEST(!hasValue(r.table.index[5]));  // 2015: its only pair starts in 2013
@@ -449,10 +460,11 @@ BOOST_AUTO_TEST_CASE(chain_unreached_and_thin_periods) {
     Sales t = s;
     t.add("E", day(2010, 6, 5), 100).add("E", day(2011, 8, 5), 107);  // 2011 now has two pairs
     o.minSales = 2;
-    const RepeatSalesResult r2 = repeatSalesIndex(t.in, o);
+    PairAudit r2_audit;
+    const RepeatSalesResult r2 = repeatSalesIndex(t.in, o, &r2_audit);
     BOOST_TEST(hasValue(r2.table.index[1]));
     BOOST_TEST(!hasValue(r2.table.index[2]));
-    BOOST_TEST(findPair(r2.pairs, "B", 3)->reason == "fewer than 2 pairs end in the period");
+    BOOST_TEST(findPair(r2_audit.pairs, "B", 3)->reason == "fewer than 2 pairs end in the period");
 }
 
 BOOST_AUTO_TEST_CASE(minsales_hides_thin_periods_in_joint_estimate) {
@@ -486,7 +498,8 @@ BOOST_AUTO_TEST_CASE(variance_floor_and_fallbacks) {
     for (int j = 0; j < 6; ++j, ++k)
         s.add("L" + std::to_string(k), day(2010, 2 + j, 1), 100)
             .add("L" + std::to_string(k), day(2017, 2 + j, 1), 100 * std::exp(7 * 0.03 + 0.001 * j));
-    const RepeatSalesResult r = repeatSalesIndex(s.in, yearly(RepeatSalesMethod::CaseShiller));
+    PairAudit r_audit;
+    const RepeatSalesResult r = repeatSalesIndex(s.in, yearly(RepeatSalesMethod::CaseShiller), &r_audit);
     BOOST_TEST(r.variance.coef.size() == 2u);
     BOOST_TEST(r.variance.coef[1] < 0);
     BOOST_TEST(r.variance.floored == 6u);
@@ -494,10 +507,10 @@ BOOST_AUTO_TEST_CASE(variance_floor_and_fallbacks) {
     // Floored (7-year) pairs weigh v_short / floor times a 1-year pair, v_short = c0 + c1.
     const double vShort = r.variance.coef[0] + r.variance.coef[1];
     BOOST_TEST(vShort > r.variance.floor);
-    const double wLong = findPair(r.pairs, "L56", 113)->weight;
-    const double wShort = findPair(r.pairs, "S0", 1)->weight;
+    const double wLong = findPair(r_audit.pairs, "L56", 113)->weight;
+    const double wShort = findPair(r_audit.pairs, "S0", 1)->weight;
     BOOST_TEST(wLong / wShort == vShort / r.variance.floor, boost::test_tools::tolerance(1e-10));
-    for (const SalePair& p : r.pairs)
+    for (const SalePair& p : r_audit.pairs)
         BOOST_TEST(p.weight <= wLong * (1 + 1e-12));
     // cs2 with only two distinct intervals (1 and 7 years): no squared term, = cs.
     const RepeatSalesResult r2 = repeatSalesIndex(s.in, yearly(RepeatSalesMethod::CaseShillerQuadratic));
@@ -543,10 +556,11 @@ BOOST_AUTO_TEST_CASE(errors_in_the_users_words) {
     ob.baseDate = day(2024, 6, 1);
     BOOST_TEST(message(iso.in, ob) == "the base period 2024 has no value: no usable pair has a sale in it");
     ob.baseDate = day(2025, 6, 1);  // the base picks its own part: 2025-2026 has a value now
-    const RepeatSalesResult rz = repeatSalesIndex(iso.in, ob);
+    PairAudit rz_audit;
+    const RepeatSalesResult rz = repeatSalesIndex(iso.in, ob, &rz_audit);
     BOOST_TEST(rz.table.index[5] == 100.0);
     BOOST_TEST(!hasValue(rz.table.index[0]));
-    BOOST_TEST(findPair(rz.pairs, "A", 1)->reason == "not linked to the base period");
+    BOOST_TEST(findPair(rz_audit.pairs, "A", 1)->reason == "not linked to the base period");
 
     Sales none;
     none.add("A", day(2020, 1, 1), 100).add("A", day(2020, 2, 1), 100);
@@ -600,11 +614,12 @@ BOOST_AUTO_TEST_CASE(pairs_given_directly) {
     add(day(2022, 4, 1), 100 * std::exp(0.05), day(2021, 4, 1), 100);
     add(day(2020, 3, 1), 100, day(2022, 3, 1), 100 * std::exp(0.18));
     add(day(2020, 3, 1), 100, day(2022, 3, 1), NAN);
-    const RepeatSalesResult r = repeatSalesFromPairs(p, yearly());
+    PairAudit r_audit;
+    const RepeatSalesResult r = repeatSalesFromPairs(p, yearly(), &r_audit);
     BOOST_TEST(r.logIndex[1] == 0.11, boost::test_tools::tolerance(1e-12));
     BOOST_TEST(r.logIndex[2] == 0.17, boost::test_tools::tolerance(1e-12));
-    BOOST_TEST(r.pairs[1].firstPrice == 100.0);
-    BOOST_TEST(r.pairs[3].reason == "second sale: blank or non-numeric price");
+    BOOST_TEST(r_audit.pairs[1].firstPrice == 100.0);
+    BOOST_TEST(r_audit.pairs[3].reason == "second sale: blank or non-numeric price");
     BOOST_TEST(r.diag.rowsIn == 4u);
     BOOST_TEST(r.diag.rowsUsed == 3u);
 }
