@@ -517,8 +517,8 @@ WindowFit fitWindow(const Design& D, int p0, int p1, const HedonicOptions& o, bo
         }
     }
 
-    // Pass 3: residuals e = y~ - Z~ b, with up to two steps of iterative refinement of b
-    // (semi-normal equations, Bjorck 1996, sec. 2.5.3) when Z~'e is not negligible.
+    // Pass 3: residuals e = y~ - Z~ b, with up to two steps of iterative refinement
+    // (b += A^-1 Z~'e) when Z~'e is not negligible.
     MatrixXd M, U;
     for (int iter = 0;; ++iter) {
         F.rss = 0;
