@@ -4,7 +4,7 @@
 set -euo pipefail
 
 build=(cmake make g++ pkg-config libeigen3-dev libfmt-dev libboost-dev libboost-test-dev
-       libreoffice-calc-nogui libreoffice-dev libreoffice-dev-common python3-uno)
+       "libreoffice-calc-nogui|libreoffice-calc" libreoffice-dev libreoffice-dev-common python3-uno)
 test=(python3-numpy python3-pandas python3-scipy python3-statsmodels r-base-core r-cran-aer
       libopenblas0-pthread)
 demo=(python3-numpy poppler-utils fonts-dejavu-core)
@@ -17,9 +17,14 @@ case "${1:-build}" in
   *) echo "usage: $0 build|test|demo" >&2; exit 2 ;;
 esac
 
+# "a|b": either package will do (the GUI office replaces the headless one); a is installed.
+installed() { dpkg-query -W -f='${Status}' "$1" 2>/dev/null | grep -q "install ok installed"; }
 missing=()
 for p in "${want[@]}"; do
-  dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q "install ok installed" || missing+=("$p")
+  ok=false
+  IFS='|' read -r -a alternatives <<< "$p"
+  for a in "${alternatives[@]}"; do installed "$a" && ok=true; done
+  $ok || missing+=("${alternatives[0]}")
 done
 [ ${#missing[@]} -eq 0 ] && exit 0
 

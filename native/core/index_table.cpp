@@ -40,17 +40,17 @@ void scaleToBase(IndexTable& t, const std::vector<double>& level,
                  const IndexOptions& o) {
     const int b = resolveBase(t.axis, level, o);
     t.basePosition = b;
-    const double scale = 100.0 / level[b];
+    const double baseLevel = level[b];  // 100 * x / base keeps the base row exactly 100
     const std::size_t n = static_cast<std::size_t>(t.axis.count);
     t.index.assign(n, kNoValue);
     t.lower.assign(n, kNoValue);
     t.upper.assign(n, kNoValue);
     for (std::size_t i = 0; i < n; ++i) {
         if (!hasValue(level[i])) continue;
-        t.index[i] = level[i] * scale;
+        t.index[i] = 100.0 * level[i] / baseLevel;
         if (hasValue(lo[i]) && hasValue(hi[i])) {
-            t.lower[i] = lo[i] * scale;
-            t.upper[i] = hi[i] * scale;
+            t.lower[i] = 100.0 * lo[i] / baseLevel;
+            t.upper[i] = 100.0 * hi[i] / baseLevel;
         }
     }
 }

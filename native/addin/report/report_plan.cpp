@@ -374,6 +374,14 @@ ReportPlan Planner::run() {
             formula(cr + 2 + k, cc + compareCols + 1, fmt::format("=INDEX({};ROWS({}))", yoy, yoy), "0.0");
         }
         format(cr + 2, cc + 1, K, compareCols - 1, "0.00");
+        // Method | signal-to-noise, for the bar chart.
+        const int sc = cc + compareCols + 3;
+        text(cr + 1, sc, "Method", true);
+        text(cr + 1, sc + 1, "Signal-to-noise", true);
+        for (int k = 0; k < K; ++k) {
+            text(cr + 2 + k, sc, methodLabel(indexMethods[k]));
+            formula(cr + 2 + k, sc + 1, fmt::format("={}", cellRef(cr + 2 + k, cc + 2)), "0.00");
+        }
     }
 
     // Charts: 3 rows of 2, each reading one contiguous block.
@@ -395,7 +403,7 @@ ReportPlan Planner::run() {
               Layout::kTableHeadRow, blocks[2].col, T + 1, K + 1, 2);
         // Signal-to-noise per method: the comparison table's name and signal-to-noise columns.
         chart("LintelSignalNoise", "Signal-to-noise ratio per method (higher = smoother)", ChartSpec::Type::Bar,
-              cr + 1, cc, K + 1, 3, 3);
+              cr + 1, cc + compareCols + 3, K + 1, 2, 3);
     }
     chart("LintelSales", "Sales per period", ChartSpec::Type::Bar, Layout::kTableHeadRow, salesBlock,
           T + 1, 2, 4);

@@ -90,7 +90,8 @@ std::string ReportSettings::serialize() const {
     std::vector<std::string> keys;
     for (Method m : methods) keys.push_back(methodKey(m));
     o << "methods=" << joinList(keys) << "\n";
-    for (const auto& [k, v] : advanced) o << "options." << k << "=" << v << "\n";
+    for (const auto& [k, v] : advanced)
+        if (!v.empty()) o << "options." << k << "=" << v << "\n";
     for (const auto& s : segment) o << "segment." << s.column << "=" << joinList(s.values) << "\n";
     o << "sheet=" << sheetName << "\n";
     return o.str();

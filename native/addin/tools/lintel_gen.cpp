@@ -3,6 +3,7 @@
 //   lintel_gen methods <file>   the component's method definitions (included by the component)
 //   lintel_gen docs <file>      the function reference (docs/functions.md)
 //   lintel_gen json <file>      the table as JSON (for tests)
+//   lintel_gen html <file>      the function reference as HTML (shipped in the extension)
 #include <cctype>
 #include <cstdio>
 #include <fstream>
@@ -120,6 +121,51 @@ std::string jsonText(const std::string& s) {
     return out + "\"";
 }
 
+std::string html(const std::string& s) {
+    std::string out;
+    for (char c : s) {
+        if (c == '<') out += "&lt;";
+        else if (c == '>') out += "&gt;";
+        else if (c == '&') out += "&amp;";
+        else out += c;
+    }
+    return out;
+}
+
+// The function reference as one HTML page, shipped inside the extension (help/functions.html).
+std::string htmlDocs() {
+    std::ostringstream o;
+    o << "<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\"><title>Lintel functions</title>"
+         "<style>body{font-family:sans-serif;max-width:60em;margin:2em auto;padding:0 1em}"
+         "code,pre{background:#f3f3f3}td,th{border-bottom:1px solid #ddd;padding:.2em .5em;text-align:left;vertical-align:top}"
+         "table{border-collapse:collapse}</style></head><body>\n"
+         "<p><a href=\"guide.html\">Guide</a></p><h1>Lintel functions</h1>\n"
+         "<p>Generated from the add-in's function table; the function wizard shows the same texts.</p>\n";
+    for (const auto& f : functionTable()) {
+        o << "<h2 id=\"" << f.name << "\">" << f.name << "</h2>\n<p>" << html(f.description) << "</p>\n<pre>" << f.name << "(";
+        for (std::size_t i = 0; i < f.args.size(); ++i) {
+            const bool opt = f.args[i].kind == ArgKind::Optional;
+            o << (i ? "; " : "") << (opt ? "[" : "") << f.args[i].name << (opt ? "]" : "");
+        }
+        o << ")</pre>\n<table><tr><th>Argument</th><th></th></tr>\n";
+        for (const auto& a : f.args)
+            o << "<tr><td><code>" << a.name << "</code>" << (a.kind == ArgKind::Optional ? " (optional)" : "")
+              << "</td><td>" << html(a.description) << "</td></tr>\n";
+        o << "</table>\n";
+        if (!f.options.empty()) {
+            o << "<p>Options:</p><table><tr><th>Key</th><th>Default</th><th></th></tr>\n";
+            for (const auto& op : f.options)
+                o << "<tr><td><code>" << op.key << "</code></td><td>" << html(op.defaultText) << "</td><td>"
+                  << html(op.description) << "</td></tr>\n";
+            o << "</table>\n";
+        }
+        o << "<p><b>Result.</b> " << html(f.output) << "</p>\n<p><b>Example.</b> <code>" << html(f.example)
+          << "</code></p>\n";
+    }
+    o << "</body></html>\n";
+    return o.str();
+}
+
 // The table as JSON, for tests that compare what Calc shows with the table.
 std::string json() {
     std::ostringstream o;
@@ -147,7 +193,7 @@ std::string json() {
 
 int main(int argc, char** argv) {
     if (argc != 3) {
-        std::cerr << "usage: lintel_gen idl|methods|docs|json <output file>\n";
+        std::cerr << "usage: lintel_gen idl|methods|docs|json|html <output file>\n";
         return 2;
     }
     const std::string what = argv[1];
@@ -156,6 +202,7 @@ int main(int argc, char** argv) {
     else if (what == "methods") text = methods();
     else if (what == "docs") text = docs();
     else if (what == "json") text = json();
+    else if (what == "html") text = htmlDocs();
     else {
         std::cerr << "unknown output " << what << "\n";
         return 2;

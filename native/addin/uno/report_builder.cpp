@@ -169,8 +169,10 @@ private:
     std::map<std::string, sal_Int32> keys_;
 };
 
-report::SheetData readSales(const Reference<css::sheet::XSpreadsheetDocument>& doc,
-                            const std::string& dataRange, bool growToRegion, std::string& usedRange) {
+}  // namespace
+
+report::SheetData readSalesTable(const Reference<css::sheet::XSpreadsheetDocument>& doc,
+                                 const std::string& dataRange, bool growToRegion, std::string& usedRange) {
     const auto [sheetName, rangeText] = splitRange(dataRange);
     Reference<css::sheet::XSpreadsheets> sheets = doc->getSheets();
     if (!sheets->hasByName(ustr(sheetName)))
@@ -209,15 +211,17 @@ report::SheetData readSales(const Reference<css::sheet::XSpreadsheetDocument>& d
     return d;
 }
 
-void storeSettings(const Reference<css::sheet::XSpreadsheetDocument>& doc, const std::string& sheet,
-                   const std::string& text) {
+void storeDocumentText(const Reference<css::sheet::XSpreadsheetDocument>& doc, const std::string& key,
+                       const std::string& text) {
     Reference<css::document::XDocumentPropertiesSupplier> dps(doc, UNO_QUERY_THROW);
     Reference<css::beans::XPropertyContainer> udp = dps->getDocumentProperties()->getUserDefinedProperties();
     Reference<css::beans::XPropertySet> ps(udp, UNO_QUERY_THROW);
-    const OUString name = ustr(kPropertyPrefix + sheet);
+    const OUString name = ustr(key);
     if (ps->getPropertySetInfo()->hasPropertyByName(name)) ps->setPropertyValue(name, Any(ustr(text)));
     else udp->addProperty(name, css::beans::PropertyAttribute::REMOVABLE, Any(ustr(text)));
 }
+
+namespace {
 
 // A page style of our own for report sheets: landscape, one page wide; the print area is the
 // report's top part and its tables.
@@ -258,9 +262,13 @@ void setUpPage(const Reference<css::sheet::XSpreadsheetDocument>& doc,
 }  // namespace
 
 std::string loadReportSettings(const Reference<css::sheet::XSpreadsheetDocument>& doc, const std::string& sheet) {
+    return loadDocumentText(doc, kPropertyPrefix + sheet);
+}
+
+std::string loadDocumentText(const Reference<css::sheet::XSpreadsheetDocument>& doc, const std::string& key) {
     Reference<css::document::XDocumentPropertiesSupplier> dps(doc, UNO_QUERY_THROW);
     Reference<css::beans::XPropertySet> ps(dps->getDocumentProperties()->getUserDefinedProperties(), UNO_QUERY_THROW);
-    const OUString name = ustr(kPropertyPrefix + sheet);
+    const OUString name = ustr(key);
     if (!ps->getPropertySetInfo()->hasPropertyByName(name)) return {};
     OUString v;
     ps->getPropertyValue(name) >>= v;
@@ -291,7 +299,7 @@ std::string buildReport(const Reference<css::sheet::XSpreadsheetDocument>& doc, 
     if (progress.is()) progress->start("Lintel: building the report", 100);
 
     std::string usedRange;
-    const report::SheetData data = readSales(doc, settings.dataRange, update, usedRange);
+    const report::SheetData data = readSalesTable(doc, settings.dataRange, update, usedRange);
     settings.dataRange = usedRange;
     const report::ReportPlan plan = report::planReport(settings, data);
     if (progress.is()) progress->setValue(20);
@@ -322,7 +330,7 @@ std::string buildReport(const Reference<css::sheet::XSpreadsheetDocument>& doc, 
     for (const auto& c : plan.charts) applier.chart(sheet, position, c);
     if (progress.is()) progress->setValue(95);
 
-    storeSettings(doc, plan.sheetName, settings.serialize());
+    storeDocumentText(doc, kPropertyPrefix + plan.sheetName, settings.serialize());
     try {
         Reference<css::sheet::XSpreadsheetView> view(model->getCurrentController(), UNO_QUERY);
         if (view.is()) view->setActiveSheet(sheet);

@@ -5,6 +5,8 @@
 
 #include <com/sun/star/sheet/XSpreadsheetDocument.hpp>
 
+#include "report_plan.hpp"
+
 namespace lintel::addin {
 
 // Builds (update = false, from settingsText) or rebuilds (update = true, from the settings
@@ -15,5 +17,16 @@ std::string buildReport(const com::sun::star::uno::Reference<com::sun::star::she
 // The settings text stored in the document for a report sheet, or "".
 std::string loadReportSettings(const com::sun::star::uno::Reference<com::sun::star::sheet::XSpreadsheetDocument>& doc,
                                const std::string& sheet);
+
+// Reads the sales table (header row first) of "Sheet.A1:J500"; with growToRegion, widened to
+// the region around its header cell (new rows pasted below). usedRange is the range read.
+report::SheetData readSalesTable(const com::sun::star::uno::Reference<com::sun::star::sheet::XSpreadsheetDocument>& doc,
+                                 const std::string& dataRange, bool growToRegion, std::string& usedRange);
+
+// Text kept in the document as a user-defined property (saved in .ods).
+void storeDocumentText(const com::sun::star::uno::Reference<com::sun::star::sheet::XSpreadsheetDocument>& doc,
+                       const std::string& key, const std::string& text);
+std::string loadDocumentText(const com::sun::star::uno::Reference<com::sun::star::sheet::XSpreadsheetDocument>& doc,
+                             const std::string& key);
 
 }  // namespace lintel::addin

@@ -1,0 +1,306 @@
+// INDEXHEDONIC, HEDONICCOEFS, REFHOMEVALUE: the hedonic time-dummy functions. Table entries,
+// cell conversion and layout only; the statistics live in native/core/hedonic.{hpp,cpp}
+// (method: docs/methods/hedonic.md; wiring notes: docs/notes/addin-hedonic.md).
+#include <climits>
+#include <cmath>
+#include <string>
+#include <vector>
+
+#include <fmt/format.h>
+
+#include "diagnostics.hpp"
+#include "function_table.hpp"
+#include "hedonic.hpp"
+#include "inputs.hpp"
+
+namespace lintel::addin {
+
+namespace {
+
+// Argument positions shared by the three functions: dates, prices, characteristics, then
+// (REFHOMEVALUE only) home, then include, freq, base, options.
+struct Positions {
+    std::size_t include, freq, base, options;
+};
+constexpr Positions kIndexArgs{3, 4, 5, 6};
+constexpr Positions kHomeArgs{4, 5, 6, 7};
+
+const FunctionSpec& self(const char* method) { return *findFunctionByMethod(method); }
+
+// characteristics -> one CharacteristicColumn per column, classified by the core's rule
+// (classifyColumn). With header=1 the first row holds the column names.
+std::vector<CharacteristicColumn> readCharacteristics(const Range& chars, std::size_t header) {
+    std::vector<CharacteristicColumn> out;
+    out.reserve(chars.cols);
+    const std::size_t n = chars.rows > header ? chars.rows - header : 0;
+    std::vector<double> numbers;
+    std::vector<std::string> texts;
+    for (std::size_t c = 0; c < chars.cols; ++c) {
+        std::string name = header ? cellKey(chars.at(0, c)) : std::string();
+        numbers.clear();
+        texts.clear();
+        numbers.reserve(n);
+        texts.reserve(n);
+        for (std::size_t i = header; i < chars.rows; ++i) {
+            const Cell& cell = chars.at(i, c);
+            numbers.push_back(cellNumber(cell));
+            texts.push_back(cell.isText() ? cell.text : std::string());  // a number gives ""
+        }
+        out.push_back(classifyColumn(std::move(name), numbers, texts));
+    }
+    return out;
+}
+
+HedonicInput readInput(const std::vector<Arg>& a, const Positions& p, const OptionBag& opts,
+                       const CallContext& ctx) {
+    const Range& chars = required(a[2], "characteristics");
+    HedonicInput in;
+    // Checks that dates, prices, include and characteristics have the same rows.
+    in.sales = readSales(a[0], a[1], a[p.include], opts, ctx, {{"characteristics", &chars}});
+    in.characteristics = readCharacteristics(chars, headerRows(opts));
+    return in;
+}
+
+// A list of column numbers as the core's ints (a huge number stays out of range rather than
+// wrapping round).
+std::vector<int> columnList(const OptionBag& opts, const char* key) {
+    std::vector<int> out;
+    for (long v : opts.integerList(key)) out.push_back(v > INT_MAX ? INT_MAX : static_cast<int>(v));
+    return out;
+}
+
+HedonicOptions readOptions(const std::vector<Arg>& a, const Positions& p, const OptionBag& opts,
+                           const CallContext& ctx) {
+    HedonicOptions o;
+    readIndexOptions(o, a[p.freq], a[p.base], opts, ctx);
+    if (opts.number("window", 0) > 1e6)
+        throw InputError(fmt::format(
+            "option window must be 0 or a number of periods up to 1000000, got {}",
+            opts.number("window", 0)));
+    o.window = static_cast<int>(opts.integer("window", 0, 0));  // 1: the core says why not
+    o.se = opts.choice("se", "classical", {"classical", "hc1"}) == "hc1"
+               ? HedonicStdErr::HC1
+               : HedonicStdErr::Classical;
+    o.bias = opts.choice("bias", "none", {"none", "kennedy"}) == "kennedy" ? HedonicBias::Kennedy
+                                                                           : HedonicBias::None;
+    o.retransform = opts.choice("retransform", "smearing", {"smearing", "lognormal"}) ==
+                            "lognormal"
+                        ? Retransform::Lognormal
+                        : Retransform::Smearing;
+    o.logColumns = columnList(opts, "log");
+    o.categoricalColumns = columnList(opts, "categorical");
+    return o;
+}
+
+// home -> HomeInput: one row, a cell per characteristics column (with header=1 a header row
+// above it may be included). Omitted, or a single blank cell: the typical home (both vectors
+// empty). The core checks the number of cells against the characteristics.
+HomeInput readHome(const Arg& arg, std::size_t header) {
+    HomeInput home;
+    if (!arg) return home;
+    const Range& r = *arg;
+    if (r.rows * r.cols == 1 && r.at(0, 0).isEmpty()) return home;
+    std::size_t row = 0;
+    if (header && r.rows == 2) row = 1;
+    else if (r.rows != 1)
+        throw InputError(fmt::format(
+            "home must be one row with a cell per characteristics column, got {} rows{}", r.rows,
+            header ? " (with header=1: one row, or a header row and one row)" : ""));
+    home.numbers.reserve(r.cols);
+    home.texts.reserve(r.cols);
+    for (std::size_t c = 0; c < r.cols; ++c) {
+        const Cell& cell = r.at(row, c);
+        home.numbers.push_back(cellNumber(cell));
+        home.texts.push_back(cell.isText() ? cell.text : std::string());
+    }
+    return home;
+}
+
+// label | value | blank ... (width cells).
+void labelRow(OutTable& out, const std::string& label, double value, std::size_t width) {
+    out.addRow();
+    out.text(label);
+    out.num(value);
+    for (std::size_t i = 2; i < width; ++i) out.none();
+}
+
+OutTable indexHedonic(const std::vector<Arg>& a, const CallContext& ctx) {
+    const OptionBag opts = OptionBag::parse(a[kIndexArgs.options], self("indexHedonic"));
+    const HedonicOptions o = readOptions(a, kIndexArgs, opts, ctx);
+    const HedonicInput in = readInput(a, kIndexArgs, opts, ctx);
+    return indexTableCells(hedonicIndex(in, o), opts, ctx);
+}
+
+OutTable hedonicCoefs(const std::vector<Arg>& a, const CallContext& ctx) {
+    const OptionBag opts = OptionBag::parse(a[kIndexArgs.options], self("hedonicCoefs"));
+    const HedonicOptions o = readOptions(a, kIndexArgs, opts, ctx);
+    const HedonicInput in = readInput(a, kIndexArgs, opts, ctx);
+    const HedonicFit fit = hedonicFit(in, o);
+    constexpr std::size_t kWidth = 4;
+    OutTable out;
+    if (opts.flag("titles", false)) {
+        out.addRow();
+        for (const char* s : {"term", "coefficient", "std error", "t"}) out.text(s);
+    }
+    for (const auto& t : fit.terms) {
+        out.addRow();
+        out.text(t.name);
+        out.num(t.coefficient);
+        out.num(t.stdError);
+        out.num(t.tValue);
+    }
+    labelRow(out, "observations", static_cast<double>(fit.observations), kWidth);
+    labelRow(out, "dropped", static_cast<double>(fit.rowsDropped), kWidth);
+    labelRow(out, "R-squared", fit.rSquared, kWidth);
+    labelRow(out, "adjusted R-squared", fit.adjRSquared, kWidth);
+    labelRow(out, "residual standard error", fit.residualSE, kWidth);
+    labelRow(out, "residual df", fit.dfResidual, kWidth);
+    std::string dropped;
+    for (const auto& d : fit.droppedTerms)
+        dropped += fmt::format("{}{} ({})", dropped.empty() ? "" : ", ", d.name, d.why);
+    out.addRow();
+    out.text("dropped terms");
+    if (dropped.empty()) out.none(); else out.text(dropped);
+    for (std::size_t i = 2; i < kWidth; ++i) out.none();
+    if (opts.flag("notes", false)) appendNotes(out, fit.diag, kWidth);
+    return out;
+}
+
+OutTable refHomeValue(const std::vector<Arg>& a, const CallContext& ctx) {
+    const OptionBag opts = OptionBag::parse(a[kHomeArgs.options], self("refHomeValue"));
+    const HedonicOptions o = readOptions(a, kHomeArgs, opts, ctx);
+    const HedonicInput in = readInput(a, kHomeArgs, opts, ctx);
+    const HomeInput home = readHome(a[3], headerRows(opts));
+    const RefHomeResult r = referenceHomeValue(in, home, o);
+    constexpr std::size_t kWidth = 4;
+    OutTable out;
+    if (opts.flag("titles", false)) {
+        out.addRow();
+        for (const char* s : {"period", "value", "lower", "upper"}) out.text(s);
+    }
+    for (int i = 0; i < r.axis.count; ++i) {
+        out.addRow();
+        out.num(r.axis.start(i) - ctx.dateOffset);
+        out.num(r.value[i]);
+        out.num(r.lower[i]);
+        out.num(r.upper[i]);
+    }
+    if (opts.flag("notes", false)) {
+        for (const auto& c : r.home) {
+            out.addRow();
+            out.text("home: " + c.column);
+            if (c.categorical) out.text(c.level); else out.num(c.number);
+            if (c.typical) out.text("typical"); else out.none();
+            out.none();
+        }
+        labelRow(out, "retransformation factor", r.retransformFactor, kWidth);
+        appendNotes(out, r.diag, kWidth);
+    }
+    return out;
+}
+
+// Arguments and options, each described once.
+ArgSpec characteristicsArg() {
+    return {"characteristics", ArgKind::Range,
+            "Characteristics of each sold home, one column per characteristic (floor area, "
+            "rooms, district ...), rows aligned with dates. Number columns enter as numbers, "
+            "text columns as categories (one term per level except the most frequent)."};
+}
+ArgSpec homeArg() {
+    return {"home", ArgKind::Optional,
+            "The reference home: one row with a value per characteristics column, in the same "
+            "order. Left empty (or a blank cell): the typical home, i.e. the base period's "
+            "median of each number column and most frequent level of each category column."};
+}
+OptionSpec logOption() {
+    return {"log", "none",
+            "Characteristics columns (1 = leftmost) that enter as natural logs, e.g. "
+            "\"log=1,3\" for floor area and lot size. Zero or negative values drop the row."};
+}
+OptionSpec categoricalOption() {
+    return {"categorical", "none",
+            "Number columns to treat as categories, e.g. \"categorical=2\" for bedrooms or a "
+            "district code. Text columns always are."};
+}
+OptionSpec windowOption() {
+    return {"window", "0",
+            "0: one pooled fit over all periods (past values revise as sales are added). k >= 2: "
+            "rolling window of k periods chained period to period, published values never "
+            "revise; 2 is the adjacent-period method."};
+}
+OptionSpec seOption() {
+    return {"se", "classical",
+            "Standard errors and bands: \"classical\" OLS, or \"hc1\" heteroskedasticity-robust "
+            "(White, HC1)."};
+}
+OptionSpec biasOption() {
+    return {"bias", "none",
+            "\"kennedy\": Kennedy's (1981) correction 100 exp(d - var(d)/2) of the index; "
+            "\"none\": 100 exp(d)."};
+}
+OptionSpec retransformOption() {
+    return {"retransform", "smearing",
+            "Back-transformation of the log price: \"smearing\" (Duan 1983, mean of "
+            "exp(residual)) or \"lognormal\" (exp(s^2/2), normal errors)."};
+}
+
+}  // namespace
+
+std::vector<FunctionSpec> hedonicFunctions() {
+    const std::vector<ArgSpec> fitArgs = {spec::dates(), spec::prices(), characteristicsArg(),
+                                          spec::include(), spec::freq(), spec::base(),
+                                          spec::options()};
+    const std::vector<ArgSpec> homeArgs = {spec::dates(),   spec::prices(), characteristicsArg(),
+                                           homeArg(),       spec::include(), spec::freq(),
+                                           spec::base(),    spec::options()};
+    FunctionSpec index{
+        "indexHedonic",
+        "INDEXHEDONIC",
+        "Hedonic time-dummy index: log price explained by the homes' characteristics and the "
+        "period of sale (OLS), the index is 100 exp(period effect - base effect). Adjusts for "
+        "the mix of homes sold.",
+        fitArgs,
+        {logOption(), categoricalOption(), windowOption(), seOption(), biasOption(),
+         spec::minsales(), spec::level(), spec::header(), spec::titles(), spec::notes()},
+        std::string(spec::kIndexOutput) +
+            " Bands: the confidence interval of the change from the base period (the base row "
+            "is 100 | 100).",
+        "=INDEXHEDONIC(A2:A5001;B2:B5001;C2:F5001;;\"Q\";;\"log=1; categorical=2\")",
+        indexHedonic};
+
+    FunctionSpec coefs{
+        "hedonicCoefs",
+        "HEDONICCOEFS",
+        "The fitted hedonic model behind INDEXHEDONIC: coefficient, standard error and t of "
+        "each term (intercept = the reference period, characteristics, other periods), then "
+        "the fit statistics.",
+        fitArgs,
+        {logOption(), categoricalOption(), windowOption(), seOption(), spec::minsales(),
+         spec::header(), spec::titles(), spec::notes()},
+        "4 columns: term | coefficient | std error | t, one row per term: (Intercept) (the "
+        "reference period's log level), the characteristic terms (named from the header row "
+        "with header=1, else x1, x2 ...; a category as name=level), then \"period 2024-03\" "
+        "rows (difference to the reference period). Then label | value rows: observations, "
+        "dropped (rows), R-squared, adjusted R-squared, residual standard error, residual df, "
+        "dropped terms (aliased terms with the reason). With window=k: the latest window's fit.",
+        "=HEDONICCOEFS(A2:A5001;B2:B5001;C2:F5001;;;;\"log=1; categorical=2\")",
+        hedonicCoefs};
+
+    FunctionSpec home{
+        "refHomeValue",
+        "REFHOMEVALUE",
+        "Estimated price of one fixed reference home in every period, from the hedonic model "
+        "(retransformed from logs), with a confidence band for the model's price of that home.",
+        homeArgs,
+        {logOption(), categoricalOption(), windowOption(), seOption(), retransformOption(),
+         spec::minsales(), spec::level(), spec::header(), spec::titles(), spec::notes()},
+        "4 columns, one row per period: period start date | value | lower band | upper band. "
+        "Periods without enough sales show blank cells. With notes=1: the home used (one row "
+        "per characteristic, \"typical\" where the typical home filled it in), the "
+        "retransformation factor and the diagnostics.",
+        "=REFHOMEVALUE(A2:A5001;B2:B5001;C2:F5001;H2:K2;;\"Q\";;\"log=1\")",
+        refHomeValue};
+    return {index, coefs, home};
+}
+
+}  // namespace lintel::addin

@@ -1,0 +1,136 @@
+"""The sidebar panel, driven headless: the panel factory registered by the extension creates
+the panel for a document's frame (as the sidebar does), the buttons are pressed through their
+accessibility actions, as a screen reader would, and the panel's state is kept in the
+document and restored when the saved file is opened again.
+
+Test data: the generated workbook of test_report.py (model stated there).
+"""
+import os
+import sys
+import time
+import unittest
+
+sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "..", "scripts"))
+sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
+import uno  # noqa: E402
+from lintel_office import Office, prop  # noqa: E402
+from test_report import sales_rows  # noqa: E402
+
+OXT = os.environ.get("LINTEL_OXT")
+PANEL_URL = "private:resource/toolpanel/LintelPanelFactory/ReportPanel"
+office = None
+
+
+def setUpModule():
+    global office
+    office = Office(OXT).__enter__()
+
+
+def tearDownModule():
+    alive = office.alive()
+    office.__exit__(None, None, None)
+    if not alive:
+        raise RuntimeError("soffice did not survive the tests")
+
+
+def open_panel(doc):
+    frame = doc.CurrentController.Frame
+    factory = office.service("org.lintel.PanelFactory")
+    element = factory.createUIElement(PANEL_URL, (prop("Frame", frame), prop("ParentWindow", frame.ContainerWindow)))
+    return element.getRealInterface()
+
+
+def press(window, button, timeout=10.0):
+    """Clicks a button through its accessibility action; the click is handled by the office's
+    event loop, so wait until the status line changes (or the timeout passes)."""
+    before = window.getControl("txtStatus").Text
+    window.getControl(button).getPeer().getAccessibleContext().doAccessibleAction(0)
+    deadline = time.time() + timeout
+    while time.time() < deadline:
+        time.sleep(0.1)
+        if window.getControl("txtStatus").Text != before:
+            break
+
+
+class SidebarTest(unittest.TestCase):
+    def setUp(self):
+        self.doc = office.new_calc()
+        self.sales = self.doc.Sheets.getByIndex(0)
+        self.sales.Name = "Sales"
+        rows = sales_rows()
+        self.sales.getCellRangeByName(f"A1:E{len(rows)}").setDataArray(rows)
+
+    def tearDown(self):
+        self.doc.close(True)
+
+    def test_panel_builds_a_report_and_its_state_survives_reload(self):
+        panel = open_panel(self.doc)
+        self.assertGreater(panel.getHeightForWidth(300).Preferred, 200)
+        self.assertGreaterEqual(panel.getMinimalWidth(), 200)
+        win = panel.Window
+        self.assertIn("Use selection", win.getControl("btnSelection").Model.Label)
+        self.assertIn("not one home", win.getControl("txtCaution").Text)
+        # Pick one cell of the table: the panel takes the region around it.
+        self.doc.CurrentController.select(self.sales.getCellRangeByName("C7"))
+        press(win, "btnSelection")
+        self.assertEqual(win.getControl("txtData").Text, "Sales.A1:E901\n900 rows, 5 columns")
+        self.assertEqual(win.getControl("lstDate").SelectedItem, "Sold")     # guessed roles
+        self.assertEqual(win.getControl("lstPrice").SelectedItem, "Price")
+        self.assertEqual(win.getControl("lstId").SelectedItem, "Id")
+        self.assertEqual(win.getControl("lstChanged").SelectedItem, "(none)")
+        # Segment values are listed from the data.
+        win.getControl("lstSegCol").selectItem("District", True)
+        self.assertEqual(win.getControl("lstSegVal").Items, ("East", "West"))
+        win.getControl("lstSegVal").selectItem("West", True)
+        win.getControl("lstFreq").selectItem("Quarter", True)
+        base = win.getControl("cmbBase")
+        self.assertEqual(base.Items[:2], ("2021-01-01", "2021-04-01"))  # period starts of the data
+        base.Text = "2022-01-01"
+        win.getControl("edtLevel").Text = "0.9"
+        win.getControl("chkMean").State = 0
+        press(win, "btnBuild")
+        status = win.getControl("txtStatus").Text
+        self.assertTrue(status.startswith("Report West: 445 sales, 12 periods") or
+                        status.startswith("Report West:"), status)
+        self.assertIn("12 periods (2021-Q1 .. 2023-Q4)", status)
+        rep = self.doc.Sheets.getByName("Report West")
+        self.assertEqual(rep.getCellRangeByName("B9").getValue(), 44562.0)  # 2022-01-01
+        self.assertEqual(rep.getCellRangeByName("B10").getValue(), 0.9)
+        self.assertEqual(rep.getCellRangeByName("B77").getValue(), 100.0)   # 2022-Q1 = 100
+        # Mean left out: the chart data block follows the one table.
+        self.assertEqual(rep.getCellRangeByName("G71").getString(), "Index level")
+        # Update report on the active report sheet rebuilds it in place.
+        press(win, "btnUpdate")
+        self.assertTrue(win.getControl("txtStatus").Text.startswith("Report West:"))
+        # Save, reopen: a new panel shows the stored state.
+        path = os.path.join(office.scratch, "sidebar-test.ods")
+        self.doc.storeToURL(uno.systemPathToFileUrl(path), (prop("FilterName", "calc8"),))
+        self.doc.close(True)
+        self.doc = office.load(path)
+        win = open_panel(self.doc).Window
+        self.assertEqual(win.getControl("txtData").Text, "Sales.A1:E901\n900 rows, 5 columns")
+        self.assertEqual(win.getControl("lstFreq").SelectedItem, "Quarter")
+        self.assertEqual(win.getControl("cmbBase").Text, "2022-01-01")
+        self.assertEqual(win.getControl("edtLevel").Text, "0.9")
+        self.assertEqual(win.getControl("chkMean").State, 0)
+        self.assertEqual(win.getControl("chkMedian").State, 1)
+        self.assertEqual(win.getControl("lstSegCol").SelectedItem, "District")
+        self.assertEqual(win.getControl("lstSegVal").SelectedItems, ("West",))
+        self.assertTrue(win.getControl("txtStatus").Text.startswith("Settings restored"))
+
+    def test_build_without_a_table_says_what_to_do(self):
+        win = open_panel(self.doc).Window
+        press(win, "btnBuild")
+        self.assertEqual(win.getControl("txtStatus").Text,
+                         "Lintel: choose the sales table first (Use selection)")
+        self.doc.CurrentController.select(self.sales.getCellRangeByName("A1"))
+        press(win, "btnSelection")
+        win.getControl("edtLevel").Text = "95"
+        press(win, "btnBuild")
+        self.assertEqual(win.getControl("txtStatus").Text,
+                         'Lintel: band level must lie between 0 and 1, got "95"')
+        self.assertTrue(office.alive())
+
+
+if __name__ == "__main__":
+    unittest.main(verbosity=2)
