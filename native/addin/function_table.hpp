@@ -60,5 +60,7 @@ OutTable callFunction(const FunctionSpec& spec, const std::vector<Arg>& args,
 // Per-area lists, concatenated in this order by functionTable().
 std::vector<FunctionSpec> rawIndexFunctions();
 std::vector<FunctionSpec> arithmeticFunctions();
+std::vector<FunctionSpec> analyticsFunctions();
+std::vector<FunctionSpec> hedonicFunctions();
 
 }  // namespace lintel::addin

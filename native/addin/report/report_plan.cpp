@@ -359,10 +359,10 @@ ReportPlan Planner::run() {
 
     // Comparison table: one row per index method.
     const int cr = Layout::kSettingsRow, cc = 3;
+    const int compareCols = 7;  // INDEXCOMPARE: name | volatility | snr | largest change | lag | corr | missing
     text(cr, cc, "Comparison (INDEXCOMPARE over the chart data; latest period changes)", true);
     if (K > 0) {
         const std::string levelsWithNames = localRange(Layout::kTableHeadRow, bc + 1, last, bc + K);
-        const int compareCols = 7;
         array(cr + 1, cc, K + 1, compareCols,
               fmt::format("=INDEXCOMPARE({};{};\"header=1; titles=1\")", levelsWithNames, freqRef));
         text(cr + 1, cc + compareCols, "Latest period (%)", true);
