@@ -36,8 +36,11 @@ def free_port():
 
 
 class Office:
-    def __init__(self, oxt=None, keep=False, profile=None):
+    def __init__(self, oxt=None, keep=False, profile=None, display=None):
+        """display: an X display (e.g. ":99" of an Xvfb) to run the real GUI on, for
+        screenshots; default headless."""
         self.oxt = oxt
+        self.display = display
         self.keep = keep
         self.fixed_profile = os.path.abspath(profile) if profile else None
         self.proc = None
@@ -61,8 +64,11 @@ class Office:
                     for name in dirs + files:
                         os.lchown(os.path.join(root, name), *self.user)
                 os.chown(self.profile, *self.user)
-        self.env = dict(os.environ, HOME=self.home, SAL_USE_VCLPLUGIN="svp")
-        self.env.pop("DISPLAY", None)
+        if self.display:
+            self.env = dict(os.environ, HOME=self.home, SAL_USE_VCLPLUGIN="gen", DISPLAY=self.display)
+        else:
+            self.env = dict(os.environ, HOME=self.home, SAL_USE_VCLPLUGIN="svp")
+            self.env.pop("DISPLAY", None)
         self.profile_url = uno.systemPathToFileUrl(self.profile)
         # A profile that has never been started is wiped at the first start: start it once.
         self._run([os.path.join(PROGRAM, "soffice.bin"), "--headless", "--norestore",
@@ -76,8 +82,9 @@ class Office:
             if out.returncode != 0:
                 raise RuntimeError(f"unopkg add failed: {out.stdout}\n{out.stderr}")
         self.port = free_port()
+        mode = ["--nologo"] if self.display else ["--headless", "--invisible", "--nologo"]
         self.proc = subprocess.Popen(
-            [os.path.join(PROGRAM, "soffice.bin"), "--headless", "--invisible", "--nologo",
+            [os.path.join(PROGRAM, "soffice.bin")] + mode + [
              "--norestore", "--nodefault", "--nolockcheck",
              f"-env:UserInstallation={self.profile_url}",
              f"--accept=socket,host=127.0.0.1,port={self.port};urp;StarOffice.ComponentContext"],

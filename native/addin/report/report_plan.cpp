@@ -374,13 +374,14 @@ ReportPlan Planner::run() {
             formula(cr + 2 + k, cc + compareCols + 1, fmt::format("=INDEX({};ROWS({}))", yoy, yoy), "0.0");
         }
         format(cr + 2, cc + 1, K, compareCols - 1, "0.00");
+        format(cr + 2, cc + 2, K, 1, "0.000");  // signal-to-noise: small numbers
         // Method | signal-to-noise, for the bar chart.
         const int sc = cc + compareCols + 3;
         text(cr + 1, sc, "Method", true);
         text(cr + 1, sc + 1, "Signal-to-noise", true);
         for (int k = 0; k < K; ++k) {
             text(cr + 2 + k, sc, methodLabel(indexMethods[k]));
-            formula(cr + 2 + k, sc + 1, fmt::format("={}", cellRef(cr + 2 + k, cc + 2)), "0.00");
+            formula(cr + 2 + k, sc + 1, fmt::format("={}", cellRef(cr + 2 + k, cc + 2)), "0.000");
         }
     }
 

@@ -110,6 +110,7 @@ public:
         for (const char* l : {"lstSegCol", "lstSegVal", "lstOptMethod", "lstFreq"})
             list(l)->addItemListener(this);
         parent_->addWindowListener(this);
+        naturalWidth_ = window_->getPosSize().Width;  // the layout's width in pixels
         const css::awt::Rectangle r = parent_->getPosSize();
         window_->setPosSize(0, 0, r.Width, window_->getPosSize().Height, css::awt::PosSize::POSSIZE);
         window_->setVisible(true);
@@ -134,7 +135,7 @@ public:
         const sal_Int32 h = window_.is() ? window_->getPosSize().Height : 400;
         return css::ui::LayoutSize(h, h, h);
     }
-    sal_Int32 SAL_CALL getMinimalWidth() override { return 260; }
+    sal_Int32 SAL_CALL getMinimalWidth() override { return std::max<sal_Int32>(naturalWidth_, 200); }
 
     // XComponent
     void SAL_CALL dispose() override {
@@ -153,7 +154,7 @@ public:
     // XWindowListener: follow the sidebar's width.
     void SAL_CALL windowResized(const css::awt::WindowEvent& e) override {
         if (window_.is())
-            window_->setPosSize(0, 0, e.Width, 0, css::awt::PosSize::WIDTH);
+            window_->setPosSize(0, 0, std::max(e.Width, naturalWidth_), 0, css::awt::PosSize::WIDTH);
     }
     void SAL_CALL windowMoved(const css::awt::WindowEvent&) override {}
     void SAL_CALL windowShown(const css::lang::EventObject&) override {}
@@ -483,6 +484,7 @@ private:
     std::vector<std::string> segmentValues_;
     report::Method optionsMethod_ = report::Method::Median;
     bool filling_ = false;
+    sal_Int32 naturalWidth_ = 0;
 };
 
 class PanelElement : public cppu::WeakImplHelper1<css::ui::XUIElement> {
