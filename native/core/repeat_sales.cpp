@@ -590,7 +590,9 @@ private:
             r_.logSe[t] = hasValue(var) ? se : kNoValue;
             r_.df[t] = dof;
             tb.index[t] = 100.0 * std::exp(d);
-            if (hasValue(var) && dof > 0) {
+            if (t == b) {  // the change from the base to itself is known exactly
+                tb.lower[t] = tb.upper[t] = 100.0;
+            } else if (hasValue(var) && dof > 0) {
                 const double q = stats::studentTQuantile(z, dof);
                 tb.lower[t] = 100.0 * std::exp(d - q * se);
                 tb.upper[t] = 100.0 * std::exp(d + q * se);

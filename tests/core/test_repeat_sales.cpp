@@ -127,6 +127,8 @@ BOOST_AUTO_TEST_CASE(hand_solved_chain) {
     BOOST_TEST(r.logIndex[2] == 0.165, boost::test_tools::tolerance(1e-12));
     BOOST_TEST(r.table.index[2] == 100 * std::exp(0.165), boost::test_tools::tolerance(1e-12));
     BOOST_TEST(!hasValue(r.table.lower[1]));
+    BOOST_TEST(r.table.lower[0] == 100.0);  // the base row is 100 | 100
+    BOOST_TEST(r.table.upper[0] == 100.0);
 }
 
 BOOST_AUTO_TEST_CASE(every_filter_and_reason) {
