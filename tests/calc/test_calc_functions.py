@@ -19,6 +19,7 @@ import numpy as np
 import pandas as pd
 
 sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "..", "scripts"))
+import uno  # noqa: E402
 from lintel_office import Office, sheet_values  # noqa: E402
 
 OXT = os.environ.get("LINTEL_OXT")
@@ -205,6 +206,23 @@ class CalcTest(unittest.TestCase):
             self.assertEqual([a.Name for a in d["Arguments"]], [a["name"] for a in f["args"]])
             self.assertEqual([a.Description for a in d["Arguments"]], [a["description"] for a in f["args"]])
             self.assertEqual([bool(a.IsOptional) for a in d["Arguments"]], [a["optional"] for a in f["args"]])
+
+
+class PackageTest(unittest.TestCase):
+    def test_extension_is_installed_with_complete_metadata(self):
+        import xml.etree.ElementTree as ET
+        pip = office.ctx.getValueByName("/singletons/com.sun.star.deployment.PackageInformationProvider")
+        ids = {e[0]: e[1] for e in pip.getExtensionList()}
+        self.assertIn("org.lintel.calc", ids)
+        self.assertRegex(ids["org.lintel.calc"], r"^\d+\.\d+\.\d+$")
+        folder = uno.fileUrlToSystemPath(pip.getPackageLocation("org.lintel.calc"))
+        ns = {"d": "http://openoffice.org/extensions/description/2006"}
+        root = ET.parse(os.path.join(folder, "description.xml")).getroot()
+        self.assertEqual(root.find("d:display-name/d:name", ns).text, "Lintel: property price indexes")
+        self.assertEqual(root.find("d:publisher/d:name", ns).text, "The Lintel developers")
+        self.assertTrue(os.path.getsize(os.path.join(folder, "LICENSE.txt")) > 10000)  # MPL-2.0 text
+        with open(os.path.join(folder, "description-en.txt")) as f:
+            self.assertIn("licensed professional", f.read())
 
 
 class BadInputTest(unittest.TestCase):
