@@ -142,7 +142,9 @@ std::string htmlDocs() {
          "code,pre{background:#f3f3f3}td,th{border-bottom:1px solid #ddd;padding:.2em .5em;text-align:left;vertical-align:top}"
          "table{border-collapse:collapse}</style></head><body>\n"
          "<p><a href=\"guide.html\">Guide</a></p><h1>Lintel functions</h1>\n"
-         "<p>Generated from the add-in's function table; the function wizard shows the same texts.</p>\n";
+         "<p>Generated from the add-in's function table; the function wizard shows the same texts.</p>\n"
+         "<p><b>Caution.</b> An index describes a market, not one home. Time-adjusting a sale is no substitute "
+         "for an appraisal by a licensed professional; follow local appraisal standards and regulations.</p>\n";
     for (const auto& f : functionTable()) {
         o << "<h2 id=\"" << f.name << "\">" << f.name << "</h2>\n<p>" << html(f.description) << "</p>\n<pre>" << f.name << "(";
         for (std::size_t i = 0; i < f.args.size(); ++i) {
