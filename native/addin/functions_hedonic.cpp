@@ -210,7 +210,9 @@ ArgSpec homeArg() {
     return {"home", ArgKind::Optional,
             "The reference home: one row with a value per characteristics column, in the same "
             "order. Left empty (or a blank cell): the typical home, i.e. the base period's "
-            "median of each number column and most frequent level of each category column."};
+            "median of each number column and most frequent level of each category column; a "
+            "blank cell takes that column's typical value. With header=1 the range may include "
+            "its header row."};
 }
 OptionSpec logOption() {
     return {"log", "none",
@@ -238,6 +240,27 @@ OptionSpec biasOption() {
             "\"kennedy\": Kennedy's (1981) correction 100 exp(d - var(d)/2) of the index; "
             "\"none\": 100 exp(d)."};
 }
+OptionSpec headerOption() {
+    return {"header", "0",
+            "1 when every input range starts with a header row: it is skipped, and the "
+            "characteristics' header gives the term names (else x1, x2 ...)."};
+}
+OptionSpec minsalesOption() {
+    return {"minsales", "1",
+            "Periods with fewer sales than this show no value (blank cells); their sales still "
+            "enter the fit."};
+}
+OptionSpec coefsMinsalesOption() {
+    return {"minsales", "1",
+            "Periods with fewer sales than this are not taken as the reference period (as in "
+            "INDEXHEDONIC they show no index value there); their sales still enter the fit."};
+}
+ArgSpec referenceArg() {
+    return {"base", ArgKind::Optional,
+            "A date; the period that contains it is the reference period: the intercept is its "
+            "log price level and each period term the difference to it. Empty: the first period "
+            "with a value."};
+}
 OptionSpec retransformOption() {
     return {"retransform", "smearing",
             "Back-transformation of the log price: \"smearing\" (Duan 1983, mean of "
@@ -250,6 +273,9 @@ std::vector<FunctionSpec> hedonicFunctions() {
     const std::vector<ArgSpec> fitArgs = {spec::dates(), spec::prices(), characteristicsArg(),
                                           spec::include(), spec::freq(), spec::base(),
                                           spec::options()};
+    const std::vector<ArgSpec> coefsArgs = {spec::dates(), spec::prices(), characteristicsArg(),
+                                            spec::include(), spec::freq(), referenceArg(),
+                                            spec::options()};
     const std::vector<ArgSpec> homeArgs = {spec::dates(),   spec::prices(), characteristicsArg(),
                                            homeArg(),       spec::include(), spec::freq(),
                                            spec::base(),    spec::options()};
@@ -261,7 +287,7 @@ std::vector<FunctionSpec> hedonicFunctions() {
         "the mix of homes sold.",
         fitArgs,
         {logOption(), categoricalOption(), windowOption(), seOption(), biasOption(),
-         spec::minsales(), spec::level(), spec::header(), spec::titles(), spec::notes()},
+         minsalesOption(), spec::level(), headerOption(), spec::titles(), spec::notes()},
         std::string(spec::kIndexOutput) +
             " Bands: the confidence interval of the change from the base period (the base row "
             "is 100 | 100).",
@@ -274,9 +300,9 @@ std::vector<FunctionSpec> hedonicFunctions() {
         "The fitted hedonic model behind INDEXHEDONIC: coefficient, standard error and t of "
         "each term (intercept = the reference period, characteristics, other periods), then "
         "the fit statistics.",
-        fitArgs,
-        {logOption(), categoricalOption(), windowOption(), seOption(), spec::minsales(),
-         spec::header(), spec::titles(), spec::notes()},
+        coefsArgs,
+        {logOption(), categoricalOption(), windowOption(), seOption(), coefsMinsalesOption(),
+         headerOption(), spec::titles(), spec::notes()},
         "4 columns: term | coefficient | std error | t, one row per term: (Intercept) (the "
         "reference period's log level), the characteristic terms (named from the header row "
         "with header=1, else x1, x2 ...; a category as name=level), then \"period 2024-03\" "
@@ -293,7 +319,7 @@ std::vector<FunctionSpec> hedonicFunctions() {
         "(retransformed from logs), with a confidence band for the model's price of that home.",
         homeArgs,
         {logOption(), categoricalOption(), windowOption(), seOption(), retransformOption(),
-         spec::minsales(), spec::level(), spec::header(), spec::titles(), spec::notes()},
+         minsalesOption(), spec::level(), headerOption(), spec::titles(), spec::notes()},
         "4 columns, one row per period: period start date | value | lower band | upper band. "
         "Periods without enough sales show blank cells. With notes=1: the home used (one row "
         "per characteristic, \"typical\" where the typical home filled it in), the "
