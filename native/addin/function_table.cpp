@@ -11,7 +11,8 @@ namespace lintel::addin {
 const std::vector<FunctionSpec>& functionTable() {
     static const std::vector<FunctionSpec> table = [] {
         std::vector<FunctionSpec> t;
-        for (auto part : {rawIndexFunctions, arithmeticFunctions, hedonicFunctions, analyticsFunctions})
+        for (auto part : {rawIndexFunctions, arithmeticFunctions, hedonicFunctions, analyticsFunctions,
+                           repeatSalesFunctions})
             for (auto& f : part()) t.push_back(std::move(f));
         return t;
     }();

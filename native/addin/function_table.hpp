@@ -62,5 +62,6 @@ std::vector<FunctionSpec> rawIndexFunctions();
 std::vector<FunctionSpec> arithmeticFunctions();
 std::vector<FunctionSpec> analyticsFunctions();
 std::vector<FunctionSpec> hedonicFunctions();
+std::vector<FunctionSpec> repeatSalesFunctions();
 
 }  // namespace lintel::addin
