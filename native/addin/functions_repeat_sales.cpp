@@ -88,7 +88,9 @@ void readRepeatOptions(RepeatSalesOptions& o, const OptionBag& opts) {
     o.method = *parseRepeatSalesMethod(m);
     o.minHoldMonths = opts.number("minhold", 6);  // the core rejects negative values
     o.maxRate = opts.number("maxrate", 1.0);
-    o.chain = intOption(opts, "chain");           // the core rejects values above 1
+    const long chain = opts.integer("chain", 0, 0);
+    if (chain > 1) throw InputError(fmt::format("chain must be 0 or 1, got {}", chain));
+    o.chain = static_cast<int>(chain);
     o.chainInit = intOption(opts, "init");
 }
 
