@@ -101,6 +101,8 @@ double OptionBag::number(const std::string& key, double fallback) const {
 
 long OptionBag::integer(const std::string& key, long fallback, long minimum) const {
     const double x = number(key, static_cast<double>(fallback));
+    if (x > 9e18)  // beyond long: keeps the conversion below defined
+        throw InputError(fmt::format("option {} is too large: {}", key, x));
     if (x != std::floor(x) || x < static_cast<double>(minimum))
         throw InputError(fmt::format("option {} must be a whole number of at least {}, got {}",
                                      key, minimum, x));

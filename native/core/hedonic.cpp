@@ -60,7 +60,8 @@ constexpr std::size_t kChunk = 1024;     // rows per block of the demeaned desig
 constexpr std::size_t kMaxLevels = 1000;  // levels of one categorical column
 constexpr std::size_t kMaxTerms = 1500;   // characteristic terms in all
 constexpr double kInf = std::numeric_limits<double>::infinity();
-const std::string kCombinedReason = "characteristic";
+// Split into its two causes after screening; shown as is when no row is usable at all.
+const std::string kCombinedReason = "blank or invalid characteristic";
 
 // ---------------------------------------------------------------------------------------
 // The design: screened sales sorted by period, with their characteristic terms encoded.
@@ -919,8 +920,11 @@ RefHomeResult referenceHomeValue(const HedonicInput& input, const HomeInput& hom
     const std::size_t nCols = input.characteristics.size();
     if ((!home.numbers.empty() && home.numbers.size() != nCols) ||
         (!home.texts.empty() && home.texts.size() != nCols))
-        throw InputError(fmt::format("home has {} cells but characteristics has {} columns",
-                                     std::max(home.numbers.size(), home.texts.size()), nCols));
+    {
+        const std::size_t cells = std::max(home.numbers.size(), home.texts.size());
+        throw InputError(fmt::format("home has {} cell{} but characteristics has {} columns", cells,
+                                     cells == 1 ? "" : "s", nCols));
+    }
     RefHomeResult out;
     out.diag = std::move(D.diag);
     warnPeriods(out.diag, D, o.minSales);

@@ -1,5 +1,6 @@
 #include "index_analytics.hpp"
 
+#include <algorithm>
 #include <cmath>
 
 #include <fmt/format.h>
@@ -124,7 +125,12 @@ SnrResult indexSnr(const std::vector<double>& index, const SnrOptions& o) {
             "has {}", r.pairs));
     r.signal = std::sqrt(ss / r.pairs);
     r.noise = std::sqrt(nn / r.pairs);
-    if (nn > 0) r.snr = ss / nn;
+    // Noise at the level of rounding (a constant index, a straight line in logs) is no
+    // noise: the solver leaves ~1e-13 log points behind, real indexes have 1e-3 and more.
+    double scale = 1.0;
+    for (double v : x)
+        if (hasValue(v)) scale = std::max(scale, std::abs(v));
+    if (r.noise > 1e-10 * scale) r.snr = ss / nn;
     else r.diag.warn("no noise: the index equals its trend, the ratio is unbounded");
     return r;
 }

@@ -273,4 +273,16 @@ BOOST_AUTO_TEST_CASE(compare_ranks_and_leads) {
     BOOST_CHECK_THROW(indexCompare(ragged, CompareOptions{}), InputError);
 }
 
+// A constant index and a straight line in logs have no noise: the ratio is left empty with a
+// warning rather than a number made of rounding errors (definition in docs/methods/analytics.md).
+BOOST_AUTO_TEST_CASE(snr_of_noise_free_series_is_empty) {
+    std::vector<double> constant(40, 100.0), line;
+    for (int t = 0; t < 40; ++t) line.push_back(100.0 * std::pow(1.01, t));
+    for (const auto& s : {constant, line}) {
+        const lintel::SnrResult r = lintel::indexSnr(s, lintel::SnrOptions{});
+        BOOST_TEST(!lintel::hasValue(r.snr));
+        BOOST_TEST(r.diag.warnings.size() == 1u);
+    }
+}
+
 BOOST_AUTO_TEST_SUITE_END()
