@@ -94,7 +94,7 @@ char cellFlag(const Cell& c) {
 }
 
 std::string cellKey(const Cell& c) {
-    if (c.isNumber()) return fmt::format("{}", c.number);
+    if (c.isNumber()) return fmt::format("{}", c.number == 0 ? 0.0 : c.number);  // -0 -> "0"
     if (c.isText()) return c.text;
     return {};
 }
