@@ -6,7 +6,7 @@ cd "$(dirname "$0")/.."
 scripts/deps.sh test
 scripts/build.sh
 echo "== core (median of 5 runs after a warm-up)"
-build/lintel_bench "${1:-}"
+build/tests/lintel_bench "${1:-}"
 if [ -f tests/bench/bench_calc.py ] && [ -z "${1:-}" ]; then
   echo "== Calc (headless soffice, median of 5 recalculations)"
   /usr/bin/python3 tests/bench/bench_calc.py --oxt build/lintel.oxt
