@@ -187,3 +187,28 @@ def sheet_values(sheet, ref):
                 row.append(cell.getString())
         out.append(row)
     return out
+
+
+class SharedOffice:
+    """One office for a whole test module:
+
+        office = SharedOffice(os.environ["LINTEL_OXT"])
+        setUpModule, tearDownModule = office.start, office.stop
+
+    stop() fails the module when soffice did not survive its tests."""
+
+    def __init__(self, oxt):
+        self.oxt = oxt
+        self._office = None
+
+    def start(self):
+        self._office = Office(self.oxt).__enter__()
+
+    def stop(self):
+        alive = self._office.alive()
+        self._office.__exit__(None, None, None)
+        if not alive:
+            raise RuntimeError("soffice did not survive the tests")
+
+    def __getattr__(self, name):
+        return getattr(self._office, name)

@@ -46,7 +46,7 @@ from statsmodels.tsa.seasonal import seasonal_decompose
 HERE = os.path.dirname(os.path.abspath(__file__))
 sys.path.insert(0, os.path.join(HERE, "..", "..", "scripts"))
 sys.path.insert(0, os.path.join(HERE, "..", "reference"))
-from lintel_office import Office, sheet_values  # noqa: E402
+from lintel_office import SharedOffice, sheet_values  # noqa: E402
 from refcommon import run_refcli  # noqa: E402
 
 OXT = os.environ.get("LINTEL_OXT")
@@ -56,19 +56,8 @@ REFCLI = os.environ.get("LINTEL_REFCLI") or os.path.join(os.path.dirname(OXT or 
 EPOCH = pd.Timestamp("1899-12-30")
 SNR_LAMBDA_M = 1 / (4 * (1 - math.cos(2 * math.pi / 24)) ** 2)  # two-year half gain, monthly
 
-office = None
-
-
-def setUpModule():
-    global office
-    office = Office(OXT).__enter__()
-
-
-def tearDownModule():
-    alive = office.alive()
-    office.__exit__(None, None, None)
-    if not alive:
-        raise RuntimeError("soffice did not survive the tests")
+office = SharedOffice(OXT)
+setUpModule, tearDownModule = office.start, office.stop
 
 
 def serial(ts):

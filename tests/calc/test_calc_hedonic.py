@@ -33,26 +33,15 @@ import statsmodels.api as sm
 from scipy import stats as sps
 
 sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "..", "scripts"))
-from lintel_office import Office, sheet_values  # noqa: E402
+from lintel_office import SharedOffice, sheet_values  # noqa: E402
 
 OXT = os.environ.get("LINTEL_OXT")
 EPOCH = pd.Timestamp("1899-12-30")
 OPTS = "header=1; log=1; categorical=2"
 REL = 1e-9
 
-office = None
-
-
-def setUpModule():
-    global office
-    office = Office(OXT).__enter__()
-
-
-def tearDownModule():
-    alive = office.alive()
-    office.__exit__(None, None, None)
-    if not alive:
-        raise RuntimeError("soffice did not survive the tests")
+office = SharedOffice(OXT)
+setUpModule, tearDownModule = office.start, office.stop
 
 
 # ---- data and the statsmodels reference -------------------------------------------------

@@ -17,23 +17,12 @@ import pandas as pd
 sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "..", "scripts"))
 import uno  # noqa: E402
 from com.sun.star.beans import NamedValue  # noqa: E402
-from lintel_office import Office, prop, sheet_values  # noqa: E402
+from lintel_office import SharedOffice, prop, sheet_values  # noqa: E402
 
 OXT = os.environ.get("LINTEL_OXT")
 EPOCH = pd.Timestamp("1899-12-30")
-office = None
-
-
-def setUpModule():
-    global office
-    office = Office(OXT).__enter__()
-
-
-def tearDownModule():
-    alive = office.alive()
-    office.__exit__(None, None, None)
-    if not alive:
-        raise RuntimeError("soffice did not survive the tests")
+office = SharedOffice(OXT)
+setUpModule, tearDownModule = office.start, office.stop
 
 
 def sales_rows(n=900, seed=3, months=36):

@@ -13,24 +13,13 @@ import unittest
 sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "..", "scripts"))
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
 import uno  # noqa: E402
-from lintel_office import Office, prop  # noqa: E402
+from lintel_office import SharedOffice, prop  # noqa: E402
 from test_report import sales_rows  # noqa: E402
 
 OXT = os.environ.get("LINTEL_OXT")
 PANEL_URL = "private:resource/toolpanel/LintelPanelFactory/ReportPanel"
-office = None
-
-
-def setUpModule():
-    global office
-    office = Office(OXT).__enter__()
-
-
-def tearDownModule():
-    alive = office.alive()
-    office.__exit__(None, None, None)
-    if not alive:
-        raise RuntimeError("soffice did not survive the tests")
+office = SharedOffice(OXT)
+setUpModule, tearDownModule = office.start, office.stop
 
 
 def open_panel(doc):

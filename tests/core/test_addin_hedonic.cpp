@@ -13,6 +13,8 @@
 //   noise = 0 (exact) or sigma (u5 - 0.5) sqrt(12) (uniform with sd sigma).
 #include <boost/test/unit_test.hpp>
 
+#include "addin_test_cells.hpp"
+
 #include <algorithm>
 #include <cmath>
 #include <string>
@@ -26,6 +28,7 @@
 
 using namespace lintel;
 using namespace lintel::addin;
+using namespace addin_test;
 
 namespace {
 
@@ -68,13 +71,6 @@ Sales sales(int perMonth, double sigma, unsigned long long seed = 11) {
     return s;
 }
 
-Arg text(const std::string& s) {
-    Range r;
-    r.rows = r.cols = 1;
-    r.scalar = true;
-    r.cells.push_back(Cell::str(s));
-    return r;
-}
 Arg grid(std::size_t rows, std::size_t cols, std::vector<Cell> cells) {
     Range r;
     r.rows = rows;
@@ -128,14 +124,7 @@ std::vector<Arg> args7(const Sheet& sh, const std::string& options) {
     return a;
 }
 
-OutTable call(const char* name, const std::vector<Arg>& a) {
-    return callFunction(*findFunctionByName(name), a, {});
-}
 
-std::string messageOf(const OutTable& t) {
-    BOOST_REQUIRE(t.scalar && t.rows.size() == 1 && t.rows[0].size() == 1);
-    return t.rows[0][0].text;
-}
 
 bool same(const OutCell& c, double want) {
     if (!std::isfinite(want)) return c.kind == OutCell::Kind::NoValue;

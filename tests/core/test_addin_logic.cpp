@@ -2,6 +2,8 @@
 // Expected values are the documented behaviour (docs/functions.md, docs/errors.md).
 #include <boost/test/unit_test.hpp>
 
+#include "addin_test_cells.hpp"
+
 #include "diagnostics.hpp"
 #include "function_table.hpp"
 #include "inputs.hpp"
@@ -9,26 +11,9 @@
 
 using namespace lintel;
 using namespace lintel::addin;
+using namespace addin_test;
 
 namespace {
-Arg text(const std::string& s) {
-    Range r;
-    r.rows = r.cols = 1;
-    r.scalar = true;
-    r.cells.push_back(Cell::str(s));
-    return r;
-}
-Arg column(const std::vector<Cell>& cells) {
-    Range r;
-    r.rows = cells.size();
-    r.cols = 1;
-    r.cells = cells;
-    return r;
-}
-std::string messageOf(const OutTable& t) {
-    BOOST_REQUIRE(t.scalar && t.rows.size() == 1 && t.rows[0].size() == 1);
-    return t.rows[0][0].text;
-}
 }  // namespace
 
 BOOST_AUTO_TEST_SUITE(addin_logic)

@@ -15,6 +15,8 @@
 // index 100, 111.627807, 118.530485; 2021 band 93.26802 .. 133.60171.
 #include <boost/test/unit_test.hpp>
 
+#include "addin_test_cells.hpp"
+
 #include <cmath>
 #include <string>
 #include <vector>
@@ -29,6 +31,7 @@
 
 using namespace lintel;
 using namespace lintel::addin;
+using namespace addin_test;
 
 namespace {
 
@@ -37,27 +40,6 @@ constexpr double k2020 = 43831, k2021 = 44197, k2022 = 44562;   // period starts
 constexpr double kMar20 = 43891, kMar21 = 44256, kApr21 = 44287, kMar22 = 44621,
                  kApr22 = 44652;
 
-Arg text(const std::string& s) {
-    Range r;
-    r.rows = r.cols = 1;
-    r.scalar = true;
-    r.cells.push_back(Cell::str(s));
-    return r;
-}
-Arg number(double x) {
-    Range r;
-    r.rows = r.cols = 1;
-    r.scalar = true;
-    r.cells.push_back(Cell::num(x));
-    return r;
-}
-Arg column(std::vector<Cell> cells) {
-    Range r;
-    r.rows = cells.size();
-    r.cols = 1;
-    r.cells = std::move(cells);
-    return r;
-}
 
 struct Sheet {
     std::vector<Cell> ids, dates, prices, changed;
@@ -104,24 +86,9 @@ std::vector<Arg> pairArgs(const Sheet& s, const std::string& options, bool withC
     return a;
 }
 
-OutTable call(const char* name, const std::vector<Arg>& a, const CallContext& ctx = {}) {
-    return callFunction(*findFunctionByName(name), a, ctx);
-}
 
-std::string messageOf(const OutTable& t) {
-    BOOST_REQUIRE(t.scalar && t.rows.size() == 1 && t.rows[0].size() == 1);
-    return t.rows[0][0].text;
-}
 
 bool isNone(const OutCell& c) { return c.kind == OutCell::Kind::NoValue; }
-double num(const OutCell& c) {
-    BOOST_REQUIRE(c.kind == OutCell::Kind::Number);
-    return c.number;
-}
-std::string txt(const OutCell& c) {
-    BOOST_REQUIRE(c.kind == OutCell::Kind::Text);
-    return c.text;
-}
 
 const std::vector<OutCell>* rowOf(const OutTable& t, const std::string& label) {
     for (const auto& r : t.rows)
