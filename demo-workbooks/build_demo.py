@@ -35,7 +35,7 @@ def report_settings(n_rows, segment=None):
     lines = [f"data=Sales.A1:J{n_rows}", "date=date", "price=price", "id=property_id",
              "changed=renovated", "characteristics=district|type|floor_area|lot|bedrooms|age",
              "strata=district|type", "freq=M", "base=2015-01-01", "level=0.95", f"methods={METHODS}",
-             "options.hedonic=log=3,4", "options.refhome=log=3,4"]
+             "options.hedonic=log=3", "options.refhome=log=3"]
     if segment:
         lines.append(segment)
     return "\n".join(lines) + "\n"
