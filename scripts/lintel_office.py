@@ -101,17 +101,21 @@ class Office:
             shutil.rmtree(self.tmp, ignore_errors=True)
 
     def stop(self):
+        """Asks the office to quit, then makes sure of it by its process id."""
         if not self.proc:
             return
         try:
             self.desktop.terminate()
         except Exception:
             pass
-        try:
-            self.proc.wait(timeout=20)
-        except subprocess.TimeoutExpired:
-            os.kill(self.proc.pid, signal.SIGKILL)
-            self.proc.wait(timeout=20)
+        for sig, wait in ((None, 15), (signal.SIGTERM, 10), (signal.SIGKILL, 10)):
+            if sig is not None and self.proc.poll() is None:
+                os.kill(self.proc.pid, sig)
+            try:
+                self.proc.wait(timeout=wait)
+                break
+            except subprocess.TimeoutExpired:
+                continue
         self.proc = None
 
     def alive(self):
