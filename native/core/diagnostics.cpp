@@ -26,16 +26,20 @@ std::size_t Diagnostics::droppedFor(const std::string& why) const {
     return 0;
 }
 
-std::string Diagnostics::summary() const {
-    std::string s = fmt::format("{} of {} rows used", rowsUsed, rowsIn);
-    if (!dropped.empty()) {
-        s += "; dropped:";
-        const char* sep = " ";
-        for (const auto& [r, c] : dropped) {
-            s += fmt::format("{}{} {}", sep, c, r);
-            sep = ", ";
-        }
+std::string droppedText(const std::vector<std::pair<std::string, std::size_t>>& dropped) {
+    std::string s;
+    if (dropped.empty()) return s;
+    s += "; dropped:";
+    const char* sep = " ";
+    for (const auto& [r, c] : dropped) {
+        s += fmt::format("{}{} {}", sep, c, r);
+        sep = ", ";
     }
+    return s;
+}
+
+std::string Diagnostics::summary() const {
+    std::string s = fmt::format("{} of {} rows used", rowsUsed, rowsIn) + droppedText(dropped);
     if (!warnings.empty()) s += fmt::format("; {} warning(s)", warnings.size());
     return s;
 }

@@ -34,6 +34,9 @@ struct Diagnostics {
     std::string summary() const;
 };
 
+// "; dropped: 10 blank price, 3 excluded by include" (empty when there is nothing).
+std::string droppedText(const std::vector<std::pair<std::string, std::size_t>>& dropped);
+
 // Reasons shared by every estimator that reads a sales table (add more beside the estimator
 // that needs them).
 namespace reason {

@@ -6,13 +6,6 @@
 
 namespace lintel {
 
-namespace {
-std::string dateText(double serial) {
-    const CivilDate d = civilFromSerial(serial);
-    return fmt::format("{:04d}-{:02d}-{:02d}", d.year, d.month, d.day);
-}
-}  // namespace
-
 IndexSeries IndexSeries::fromColumns(std::vector<double> start, std::vector<double> value) {
     if (start.size() != value.size())
         throw InputError(fmt::format("periods has {} rows, index has {}", start.size(),
@@ -48,11 +41,11 @@ std::vector<double> rebaseIndex(const IndexSeries& s, double baseDate) {
     const int b = s.rowOf(baseDate);
     if (b < 0)
         throw InputError(fmt::format("base {} lies outside the periods ({} .. {})",
-                                     dateText(baseDate), dateText(s.start.front()),
-                                     dateText(s.start.back())));
+                                     isoDate(baseDate), isoDate(s.start.front()),
+                                     isoDate(s.start.back())));
     if (!hasValue(s.value[b]) || s.value[b] <= 0)
         throw InputError(fmt::format("the base period {} has no index value",
-                                     dateText(s.start[b])));
+                                     isoDate(s.start[b])));
     std::vector<double> out(s.value.size(), kNoValue);
     for (std::size_t i = 0; i < out.size(); ++i)
         if (hasValue(s.value[i])) out[i] = 100.0 * s.value[i] / s.value[b];
@@ -85,11 +78,11 @@ double adjustPrice(const IndexSeries& s, double price, double saleDate, double t
         const int r = s.rowOf(date);
         if (r < 0)
             throw InputError(fmt::format("{} {} lies outside the index ({} .. {})", what,
-                                         dateText(date), dateText(s.start.front()),
-                                         dateText(s.start.back())));
+                                         isoDate(date), isoDate(s.start.front()),
+                                         isoDate(s.start.back())));
         if (!hasValue(s.value[r]) || s.value[r] <= 0)
             throw InputError(fmt::format("{} {} falls on period {} without an index value",
-                                         what, dateText(date), dateText(s.start[r])));
+                                         what, isoDate(date), isoDate(s.start[r])));
         return s.value[r];
     };
     const double iSale = lookup(saleDate, "saledate");

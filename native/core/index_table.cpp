@@ -4,13 +4,6 @@
 
 namespace lintel {
 
-namespace {
-std::string dateText(double serial) {
-    const CivilDate d = civilFromSerial(serial);
-    return fmt::format("{:04d}-{:02d}-{:02d}", d.year, d.month, d.day);
-}
-}  // namespace
-
 void validateCommon(const IndexOptions& o) {
     if (!(o.level > 0.0 && o.level < 1.0))
         throw InputError(fmt::format("level must lie between 0 and 1, got {}", o.level));
@@ -23,7 +16,7 @@ int resolveBase(const PeriodAxis& axis, const std::vector<double>& level,
         const int b = axis.positionOf(*o.baseDate);
         if (b < 0)
             throw InputError(fmt::format("base {} lies outside the data ({})",
-                                         dateText(*o.baseDate), axis.rangeText()));
+                                         isoDate(*o.baseDate), axis.rangeText()));
         if (!hasValue(level[b]))
             throw InputError(fmt::format(
                 "the base period {} has no value (too few sales; minsales {})", axis.label(b),

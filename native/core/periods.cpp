@@ -46,6 +46,11 @@ CivilDate civilFromSerial(double serial) {
     return civilFromDays(static_cast<long long>(std::floor(serial)) + kSerialEpochDays);
 }
 
+std::string isoDate(double serial) {
+    const CivilDate d = civilFromSerial(serial);
+    return fmt::format("{:04d}-{:02d}-{:02d}", d.year, d.month, d.day);
+}
+
 bool isUsableSerial(double serial) {
     // 1583-01-01 is serial -115859; 9999-12-31 is serial 2958465.
     return std::isfinite(serial) && serial >= -115859.0 && serial < 2958466.0;

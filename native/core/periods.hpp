@@ -29,6 +29,9 @@ CivilDate civilFromDays(long long days);
 double serialFromCivil(const CivilDate& d);
 CivilDate civilFromSerial(double serial);
 
+// "2024-03-15" for a serial.
+std::string isoDate(double serial);
+
 // A serial we accept as a sale date: finite and within years 1583..9999.
 bool isUsableSerial(double serial);
 

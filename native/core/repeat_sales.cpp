@@ -696,16 +696,7 @@ RepeatSalesResult runEstimate(BuiltPairs bp, const RepeatSalesOptions& o, bool f
 }  // namespace
 
 std::string PairCounts::summary() const {
-    std::string s = fmt::format("{} of {} pairs used", used, formed);
-    if (!dropped.empty()) {
-        s += "; dropped:";
-        const char* sep = " ";
-        for (const auto& [r, c] : dropped) {
-            s += fmt::format("{}{} {}", sep, c, r);
-            sep = ", ";
-        }
-    }
-    return s;
+    return fmt::format("{} of {} pairs used", used, formed) + droppedText(dropped);
 }
 
 std::string RepeatSalesResult::summary() const {

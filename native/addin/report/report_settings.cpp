@@ -8,17 +8,13 @@
 #include <fmt/format.h>
 
 #include "diagnostics.hpp"
+#include "text.hpp"
 
 namespace lintel::report {
 
-namespace {
+using addin::trim;
 
-std::string trim(const std::string& s) {
-    std::size_t a = 0, b = s.size();
-    while (a < b && std::isspace(static_cast<unsigned char>(s[a]))) ++a;
-    while (b > a && std::isspace(static_cast<unsigned char>(s[b - 1]))) --b;
-    return s.substr(a, b - a);
-}
+namespace {
 
 std::vector<std::string> splitList(const std::string& s) {
     std::vector<std::string> out;

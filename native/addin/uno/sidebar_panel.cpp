@@ -60,6 +60,7 @@
 #include "periods.hpp"
 #include "report_builder.hpp"
 #include "report_settings.hpp"
+#include "text.hpp"
 #include "uno_cells.hpp"
 
 namespace css = com::sun::star;
@@ -80,11 +81,6 @@ const char* kExtensionId = "org.lintel.calc";
 Sequence<OUString> toSequence(const std::vector<std::string>& v) {
     Sequence<OUString> s(static_cast<sal_Int32>(v.size()));
     for (std::size_t i = 0; i < v.size(); ++i) s.getArray()[i] = ustr(v[i]);
-    return s;
-}
-
-std::string lower(std::string s) {
-    for (char& c : s) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
     return s;
 }
 
@@ -418,8 +414,7 @@ private:
             }
         std::vector<std::string> items;
         for (long k : keys) {
-            const CivilDate c = civilFromSerial(periodStartOfKey(k, f));
-            items.push_back(fmt::format("{:04d}-{:02d}-{:02d}", c.year, c.month, c.day));
+            items.push_back(isoDate(periodStartOfKey(k, f)));
         }
         Reference<css::awt::XComboBox> box(control("cmbBase"), UNO_QUERY_THROW);
         box->removeItems(0, box->getItemCount());
