@@ -444,8 +444,10 @@ WindowFit fitWindow(const Design& D, int p0, int p1, const HedonicOptions& o, bo
     for (std::size_t a = r0; a < r1; a += kChunk) {
         const std::size_t m = std::min(kChunk, r1 - a);
         demeaned(a, m, yt);
-        A.selfadjointView<Eigen::Lower>().rankUpdate(X.transpose());
-        c.noalias() += X.transpose() * yt;
+        if (K > 0) {  // no terms left (all dropped): Eigen's products of empty matrices are UB
+            A.selfadjointView<Eigen::Lower>().rankUpdate(X.transpose());
+            c.noalias() += X.transpose() * yt;
+        }
         yWithin += yt.squaredNorm();
     }
     A = A.selfadjointView<Eigen::Lower>();
