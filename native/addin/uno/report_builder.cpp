@@ -102,7 +102,9 @@ public:
     sal_Int32 formatKey(const std::string& code) {
         auto it = keys_.find(code);
         if (it != keys_.end()) return it->second;
-        css::lang::Locale loc;
+        // Format codes are written in English (YYYY-MM-DD, 0.0): read them as en-US whatever
+        // the office's language, where the keywords differ (e.g. JJJJ in German).
+        const css::lang::Locale loc("en", "US", "");
         sal_Int32 k = formats_->queryKey(ustr(code), loc, false);
         if (k == -1) k = formats_->addNew(ustr(code), loc);
         keys_[code] = k;
