@@ -17,7 +17,10 @@ namespace {
 std::optional<double> toNumber(const Cell& c) {
     if (c.isNumber()) return c.number;
     if (!c.isText()) return std::nullopt;
-    const std::string t = trim(c.text);
+    std::string t = trim(c.text);
+    // A decimal comma, as Calc writes numbers into text ("level="&B9) in many languages.
+    if (std::count(t.begin(), t.end(), ',') == 1 && t.find('.') == std::string::npos)
+        std::replace(t.begin(), t.end(), ',', '.');
     char* end = nullptr;
     const double x = std::strtod(t.c_str(), &end);
     if (t.empty() || *end) return std::nullopt;

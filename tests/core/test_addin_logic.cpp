@@ -35,6 +35,13 @@ BOOST_AUTO_TEST_CASE(options_text_and_range) {
     BOOST_TEST(b.flag("notes", false));
 }
 
+BOOST_AUTO_TEST_CASE(decimal_comma_in_option_numbers) {
+    // "level="&B9 gives "level=0,9" in a German or French Calc.
+    const FunctionSpec& spec = *findFunctionByName("INDEXMEAN");
+    BOOST_TEST(OptionBag::parse(text("level=0,9; trim=0.1"), spec).number("level", 0.95) == 0.9);
+    BOOST_TEST(OptionBag::parse(text("trim=0.1"), spec).number("trim", 0) == 0.1);
+}
+
 BOOST_AUTO_TEST_CASE(option_errors_name_the_key) {
     const FunctionSpec& spec = *findFunctionByName("INDEXMEDIAN");
     try {
