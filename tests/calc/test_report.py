@@ -137,6 +137,15 @@ class ReportTest(unittest.TestCase):
         self.assertEqual(rep.getCellRangeByName("C85").getValue(), 5.0)
         self.assertEqual(self.doc.Sheets.Count, 2)  # rebuilt in place, not added
 
+    def test_sheet_name_with_spaces_and_a_dot(self):
+        self.doc.Sheets.getByIndex(0).Name = "Closed sales v1.2"
+        settings = SETTINGS.format(last=len(self.rows)).replace("data=Sales.", "data=Closed sales v1.2.")
+        status = self.build(settings)
+        self.assertTrue(status.startswith("Report East: "), status)
+        rep = self.doc.Sheets.getByName("Report East")
+        self.assertIn("$'Closed sales v1.2'.$A$2:$A$901", rep.getCellRangeByName("A73").getArrayFormula())
+        self.assertEqual(rep.getCellRangeByName("B77").getValue(), 100.0)
+
     def test_bad_settings_give_messages(self):
         last = len(self.rows)
         cases = {
