@@ -42,6 +42,9 @@ struct FunctionSpec {
     std::string output;       // docs: what the result looks like
     std::string example;      // docs: a formula
     Implementation impl = nullptr;
+    // Number format of each output column ("" = leave it): the panel's "Format index table"
+    // applies them, since Calc gives an array result the date format of its first input.
+    std::vector<std::string> formats;
 };
 
 const std::vector<FunctionSpec>& functionTable();

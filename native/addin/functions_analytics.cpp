@@ -539,6 +539,12 @@ std::vector<FunctionSpec> analyticsFunctions() {
         "=INDEXCOMPARE(F1:H121;\"M\";\"header=1; titles=1\")",
         compare};
 
+    mixSpec.formats = spec::indexFormats();
+    trendSpec.formats = {"0.0"};
+    leadLagSpec.formats = {"0", "0.000", "0"};
+    turnsSpec.formats = {"YYYY-MM-DD", "", "0.0", "0"};
+    seasonalSpec.formats = {"0.0000"};
+    compareSpec.formats = {"", "0.00", "0.000", "0.00", "0", "0.00", "0"};
     return {mixSpec, volatilitySpec, trendSpec, snrSpec, leadLagSpec, turnsSpec, seasonalSpec,
             compareSpec};
 }

@@ -124,7 +124,7 @@ std::vector<FunctionSpec> arithmeticFunctions() {
     const ArgSpec periods{"periods", ArgKind::Range,
                           "The period column of an index table (period start dates)."};
     const ArgSpec index{"index", ArgKind::Range, "The index column aligned with periods."};
-    return {
+    std::vector<FunctionSpec> specs = {
         {"indexRebase",
          "INDEXREBASE",
          "Rebases an index column so that the period containing the base date is 100.",
@@ -165,6 +165,10 @@ std::vector<FunctionSpec> arithmeticFunctions() {
          "=PRICEADJUST(B2;A2;DATE(2024;6;30);E$2:E$61;F$2:F$61)",
          adjust},
     };
+    specs[0].formats = {"0.0"};    // rebased index
+    specs[1].formats = {"0.00"};   // change
+    specs[2].formats = {"#,##0"};  // adjusted price
+    return specs;
 }
 
 }  // namespace lintel::addin

@@ -326,6 +326,9 @@ std::vector<FunctionSpec> hedonicFunctions() {
         "retransformation factor and the diagnostics.",
         "=REFHOMEVALUE(A2:A5001;B2:B5001;C2:F5001;H2:K2;;\"Q\";;\"log=1\")",
         refHomeValue};
+    index.formats = spec::indexFormats();
+    coefs.formats = {"", "0.0000", "0.0000", "0.00"};
+    home.formats = {"YYYY-MM-DD", "#,##0", "#,##0", "#,##0"};
     return {index, coefs, home};
 }
 

@@ -86,6 +86,8 @@ std::vector<FunctionSpec> rawIndexFunctions() {
         [](const std::vector<Arg>& a, const CallContext& ctx) {
             return rawIndex<indexMedian>(a, ctx, self("indexMedian"));
         }};
+    periodOfSpec.formats = {"YYYY-MM-DD"};
+    mean.formats = median.formats = spec::indexFormats();
     return {periodOfSpec, mean, median};
 }
 

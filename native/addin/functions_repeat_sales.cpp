@@ -277,6 +277,10 @@ std::vector<FunctionSpec> repeatSalesFunctions() {
         "diagnostics and a row \"pairs\" with the pairs used and dropped by reason.",
         "=RSPAIRS(C2:C12010;A2:A12010;B2:B12010;J2:J12010;;\"freq=Q; titles=1\")",
         rsPairs};
+    index.formats = spec::indexFormats();
+    // id | first date | first price | second date | second price | months | return | used |
+    // reason | weight
+    pairs.formats = {"", "YYYY-MM-DD", "#,##0", "YYYY-MM-DD", "#,##0", "0", "0.0000", "0", "", "0.000"};
     return {index, pairs};
 }
 

@@ -293,6 +293,8 @@ ArgSpec options() {
             "Optional settings as text \"key=value; key=value\" or a two-column range of keys "
             "and values."};
 }
+std::vector<std::string> indexFormats() { return {"YYYY-MM-DD", "0.0", "0", "0.0", "0.0"}; }
+
 const char* kIndexOutput =
     "One row per period from the first to the last period with a usable sale: period start "
     "date | index (base period = 100) | sales used | lower band | upper band. Select fewer "

@@ -87,6 +87,8 @@ ArgSpec freq();
 ArgSpec base();
 ArgSpec options();
 extern const char* kIndexOutput;
+// period | index | count | lower | upper
+std::vector<std::string> indexFormats();
 }  // namespace spec
 
 }  // namespace lintel::addin

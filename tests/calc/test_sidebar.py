@@ -107,6 +107,22 @@ class SidebarTest(unittest.TestCase):
         self.assertEqual(win.getControl("lstSegVal").SelectedItems, ("West",))
         self.assertTrue(win.getControl("txtStatus").Text.startswith("Settings restored"))
 
+    def test_format_index_table(self):
+        # A hand-typed table shows in the date format of its dates until formatted.
+        self.sales.getCellRangeByName("H2:L37").setArrayFormula("=INDEXMEDIAN(A2:A901;B2:B901)")
+        self.doc.calculateAll()
+        win = open_panel(self.doc).Window
+        self.doc.CurrentController.select(self.sales.getCellRangeByName("J10"))
+        press(win, "btnFormat")
+        self.assertEqual(win.getControl("txtStatus").Text, "Formatted the INDEXMEDIAN table (36 rows).")
+        fmt = lambda ref: self.doc.NumberFormats.getByKey(self.sales.getCellRangeByName(ref).NumberFormat).FormatString
+        self.assertEqual([fmt(c) for c in ("H5", "I5", "J5", "K5", "L37")],
+                         ["YYYY-MM-DD", "0.0", "0", "0.0", "0.0"])
+        self.doc.CurrentController.select(self.sales.getCellRangeByName("A5"))
+        press(win, "btnFormat")
+        self.assertEqual(win.getControl("txtStatus").Text,
+                         "Lintel: the cell is not in an array formula: click a cell of a Lintel table")
+
     def test_build_without_a_table_says_what_to_do(self):
         win = open_panel(self.doc).Window
         press(win, "btnBuild")

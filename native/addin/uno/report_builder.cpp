@@ -94,21 +94,12 @@ std::pair<std::string, std::string> splitRange(const std::string& text) {
 
 class Applier {
 public:
-    explicit Applier(const Reference<css::sheet::XSpreadsheetDocument>& doc) : doc_(doc) {
-        Reference<css::util::XNumberFormatsSupplier> nfs(doc, UNO_QUERY_THROW);
-        formats_ = nfs->getNumberFormats();
-    }
+    explicit Applier(const Reference<css::sheet::XSpreadsheetDocument>& doc) : doc_(doc) {}
 
     sal_Int32 formatKey(const std::string& code) {
         auto it = keys_.find(code);
         if (it != keys_.end()) return it->second;
-        // Format codes are written in English (YYYY-MM-DD, 0.0): read them as en-US whatever
-        // the office's language, where the keywords differ (e.g. JJJJ in German).
-        const css::lang::Locale loc("en", "US", "");
-        sal_Int32 k = formats_->queryKey(ustr(code), loc, false);
-        if (k == -1) k = formats_->addNew(ustr(code), loc);
-        keys_[code] = k;
-        return k;
+        return keys_[code] = numberFormatKey(doc_, code);
     }
 
     void apply(const Reference<css::sheet::XSpreadsheet>& sheet, const report::CellWrite& w) {
@@ -167,11 +158,21 @@ public:
 
 private:
     Reference<css::sheet::XSpreadsheetDocument> doc_;
-    Reference<css::util::XNumberFormats> formats_;
     std::map<std::string, sal_Int32> keys_;
 };
 
 }  // namespace
+
+sal_Int32 numberFormatKey(const Reference<css::sheet::XSpreadsheetDocument>& doc, const std::string& code) {
+    Reference<css::util::XNumberFormatsSupplier> nfs(doc, UNO_QUERY_THROW);
+    Reference<css::util::XNumberFormats> formats = nfs->getNumberFormats();
+    // Format codes are written in English (YYYY-MM-DD, 0.0): read them as en-US whatever the
+    // office's language, where the keywords differ (e.g. JJJJ in German).
+    const css::lang::Locale loc("en", "US", "");
+    sal_Int32 k = formats->queryKey(ustr(code), loc, false);
+    if (k == -1) k = formats->addNew(ustr(code), loc);
+    return k;
+}
 
 report::SheetData readSalesTable(const Reference<css::sheet::XSpreadsheetDocument>& doc,
                                  const std::string& dataRange, bool growToRegion, std::string& usedRange) {

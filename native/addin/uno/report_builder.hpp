@@ -23,6 +23,10 @@ std::string loadReportSettings(const com::sun::star::uno::Reference<com::sun::st
 report::SheetData readSalesTable(const com::sun::star::uno::Reference<com::sun::star::sheet::XSpreadsheetDocument>& doc,
                                  const std::string& dataRange, bool growToRegion, std::string& usedRange);
 
+// The key of a number format code written in English ("YYYY-MM-DD", "0.0"), added if new.
+sal_Int32 numberFormatKey(const com::sun::star::uno::Reference<com::sun::star::sheet::XSpreadsheetDocument>& doc,
+                          const std::string& code);
+
 // Text kept in the document as a user-defined property (saved in .ods).
 void storeDocumentText(const com::sun::star::uno::Reference<com::sun::star::sheet::XSpreadsheetDocument>& doc,
                        const std::string& key, const std::string& text);

@@ -33,7 +33,9 @@
 #include <com/sun/star/frame/XModel.hpp>
 #include <com/sun/star/lang/XComponent.hpp>
 #include <com/sun/star/lang/XServiceInfo.hpp>
+#include <com/sun/star/sheet/XArrayFormulaRange.hpp>
 #include <com/sun/star/sheet/XCellRangeAddressable.hpp>
+#include <com/sun/star/beans/XPropertySet.hpp>
 #include <com/sun/star/sheet/XSheetCellCursor.hpp>
 #include <com/sun/star/sheet/XSheetCellRange.hpp>
 #include <com/sun/star/sheet/XSpreadsheet.hpp>
@@ -98,7 +100,7 @@ public:
         window_ = provider->createContainerWindow(location + "/dialogs/ReportPanel.xdl", OUString(),
                                                   Reference<css::awt::XWindowPeer>(parent_, UNO_QUERY), nullptr);
         controls_.set(window_, UNO_QUERY_THROW);
-        for (const char* b : {"btnSelection", "btnBuild", "btnUpdate", "btnGuide"}) {
+        for (const char* b : {"btnSelection", "btnBuild", "btnUpdate", "btnGuide", "btnFormat"}) {
             Reference<css::awt::XButton> button(control(b), UNO_QUERY_THROW);
             button->setActionCommand(OUString::createFromAscii(b));
             button->addActionListener(this);
@@ -164,6 +166,7 @@ public:
             else if (cmd == "btnBuild") build(false);
             else if (cmd == "btnUpdate") build(true);
             else if (cmd == "btnGuide") openGuide();
+            else if (cmd == "btnFormat") formatTable();
         });
     }
 
@@ -459,6 +462,42 @@ private:
             storeDocumentText(doc, kPanelStateKey, text);
         }
         status(result);
+    }
+
+    // Number formats for a hand-typed Lintel table at the cursor (Calc shows the whole array in
+    // the date format of its first input): the formats come from the function table.
+    void formatTable() {
+        Reference<css::sheet::XSpreadsheetDocument> doc = document();
+        Reference<css::frame::XModel> model(doc, UNO_QUERY_THROW);
+        Reference<css::sheet::XCellRangeAddressable> sel(model->getCurrentSelection(), UNO_QUERY);
+        if (!sel.is()) throw InputError("click a cell of a Lintel table first");
+        const css::table::CellRangeAddress a = sel->getRangeAddress();
+        Reference<css::container::XIndexAccess> sheets(doc->getSheets(), UNO_QUERY_THROW);
+        Reference<css::sheet::XSpreadsheet> sheet(sheets->getByIndex(a.Sheet), UNO_QUERY_THROW);
+        Reference<css::sheet::XSheetCellCursor> cursor = sheet->createCursorByRange(Reference<css::sheet::XSheetCellRange>(
+            sheet->getCellRangeByPosition(a.StartColumn, a.StartRow, a.StartColumn, a.StartRow), UNO_QUERY_THROW));
+        std::string formula;
+        try {
+            cursor->collapseToCurrentArray();
+            formula = utf8(Reference<css::sheet::XArrayFormulaRange>(cursor, UNO_QUERY_THROW)->getArrayFormula());
+        } catch (const css::uno::RuntimeException&) {
+        }
+        if (formula.empty()) throw InputError("the cell is not in an array formula: click a cell of a Lintel table");
+        std::size_t b = formula.find_first_not_of("{=");
+        std::size_t e = formula.find('(', b);
+        std::string name = formula.substr(b, e == std::string::npos ? std::string::npos : e - b);
+        for (char& ch : name) ch = static_cast<char>(std::toupper(static_cast<unsigned char>(ch)));
+        const FunctionSpec* f = findFunctionByName(name);
+        if (!f || f->formats.empty()) throw InputError(fmt::format("{} is not a Lintel table", name));
+        const css::table::CellRangeAddress r = Reference<css::sheet::XCellRangeAddressable>(cursor, UNO_QUERY_THROW)->getRangeAddress();
+        const int cols = std::min<int>(r.EndColumn - r.StartColumn + 1, static_cast<int>(f->formats.size()));
+        for (int c = 0; c < cols; ++c) {
+            if (f->formats[c].empty()) continue;
+            Reference<css::beans::XPropertySet> col(
+                sheet->getCellRangeByPosition(r.StartColumn + c, r.StartRow, r.StartColumn + c, r.EndRow), UNO_QUERY_THROW);
+            col->setPropertyValue("NumberFormat", Any(numberFormatKey(doc, f->formats[c])));
+        }
+        status(fmt::format("Formatted the {} table ({} rows).", name, r.EndRow - r.StartRow + 1));
     }
 
     void openGuide() {
