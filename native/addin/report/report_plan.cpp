@@ -260,7 +260,8 @@ ReportPlan Planner::run() {
     number(rowBase, 1, base, "YYYY-MM-DD");
     text(rowLevel, 0, "Band level"); number(rowLevel, 1, s_.level, "0%");
     text(sr + 7, 0, "Sales used");
-    text(sr + 8, 0, "Built with"); text(sr + 8, 1, "Lintel (report from the Lintel sidebar; Update report rebuilds it)");
+    text(sr + 8, 0, "Built with");
+    text(sr + 8, 1, "Lintel " LINTEL_VERSION " (Update report in the Lintel sidebar rebuilds this sheet)");
 
     const std::string freqRef = cellRef(rowFreq, 1), baseRef = cellRef(rowBase, 1);
     std::string charsBlock, strataBlock, idRange, changedRange;
