@@ -7,7 +7,7 @@ build=(cmake make g++ pkg-config libeigen3-dev libfmt-dev libboost-dev libboost-
        "libreoffice-calc-nogui|libreoffice-calc" libreoffice-dev libreoffice-dev-common python3-uno)
 test=(python3-numpy python3-pandas python3-scipy python3-statsmodels r-base-core r-cran-aer
       libopenblas0-pthread)
-demo=(python3-numpy poppler-utils fonts-dejavu-core)
+demo=(python3-numpy python3-pandas poppler-utils fonts-dejavu-core)
 
 want=("${build[@]}")
 case "${1:-build}" in
