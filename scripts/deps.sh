@@ -1,6 +1,7 @@
 #!/usr/bin/env bash
-# Installs the Debian packages Lintel needs that are missing. Usage: scripts/deps.sh build|test|demo
-# (test and demo include build). As root it runs apt-get; otherwise it uses sudo when present.
+# Installs the Debian packages Lintel needs that are missing.
+# Usage: scripts/deps.sh build|test|demo|gui (each includes build; gui: for scripts/screenshots.py,
+# the GUI office replaces the headless one). As root it runs apt-get; otherwise it uses sudo when present.
 set -euo pipefail
 
 build=(cmake make g++ pkg-config libeigen3-dev libfmt-dev libboost-dev libboost-test-dev
@@ -8,13 +9,15 @@ build=(cmake make g++ pkg-config libeigen3-dev libfmt-dev libboost-dev libboost-
 test=(python3-numpy python3-pandas python3-scipy python3-statsmodels r-base-core r-cran-aer
       libopenblas0-pthread)
 demo=(python3-numpy python3-pandas poppler-utils fonts-dejavu-core)
+gui=(libreoffice-calc xvfb imagemagick xdotool python3-numpy python3-pandas)
 
 want=("${build[@]}")
 case "${1:-build}" in
   build) ;;
   test) want+=("${test[@]}") ;;
   demo) want+=("${demo[@]}") ;;
-  *) echo "usage: $0 build|test|demo" >&2; exit 2 ;;
+  gui) want+=("${gui[@]}") ;;
+  *) echo "usage: $0 build|test|demo|gui" >&2; exit 2 ;;
 esac
 
 # "a|b": either package will do (the GUI office replaces the headless one); a is installed.

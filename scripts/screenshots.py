@@ -1,9 +1,10 @@
 #!/usr/bin/python3
 """Screenshots of the real GUI for the docs: Calc under Xvfb with the Lintel sidebar deck open
-on a report built from the demo market. Needs the GUI office (libreoffice-calc), xvfb and
-imagemagick; writes docs/screenshots/*.png. A manual step, checked by eye, not a test.
+on a report built from the demo market. Needs the GUI office (libreoffice-calc), xvfb,
+imagemagick and xdotool (`scripts/deps.sh gui`); writes docs/screenshots/*.png. A manual step,
+checked by eye, not a test.
 
-    scripts/screenshots.py --oxt build/lintel.oxt
+    scripts/deps.sh gui && scripts/screenshots.py --oxt build/lintel.oxt
 """
 import argparse
 import os
