@@ -197,10 +197,7 @@ OutTable leadLag(const std::vector<Arg>& a, const CallContext&) {
     o.minPairs = static_cast<std::size_t>(opts.integer("minpairs", 3, 3));
     const LeadLagResult r = indexLeadLag(in, o);
     OutTable out;
-    if (opts.flag("titles", false)) {
-        out.addRow();
-        for (const char* s : {"lag", "correlation", "pairs"}) out.text(s);
-    }
+    titleRow(out, opts, {"lag", "correlation", "pairs"});
     for (const auto& row : r.rows) {
         out.addRow();
         out.num(row.lag);
@@ -232,10 +229,7 @@ OutTable turns(const std::vector<Arg>& a, const CallContext& ctx) {
     o.ends = optionalInteger(opts, "ends", 0, -1);
     const TurnsResult r = indexTurns(in, o);
     OutTable out;
-    if (opts.flag("titles", false)) {
-        out.addRow();
-        for (const char* s : {"period", "turn", "index", "months since previous"}) out.text(s);
-    }
+    titleRow(out, opts, {"period", "turn", "index", "months since previous"});
     for (const auto& row : r.rows) {
         out.addRow();
         out.num(row.periodStart - ctx.dateOffset);
@@ -315,12 +309,8 @@ OutTable compare(const std::vector<Arg>& a, const CallContext&) {
     o.maxLag = optionalInteger(opts, "maxlag", 0, -1);
     const CompareResult r = indexCompare(in, o);
     OutTable out;
-    if (opts.flag("titles", false)) {
-        out.addRow();
-        for (const char* s : {"name", "volatility", "signal-to-noise", "largest change %",
-                              "lag vs first", "correlation", "missing"})
-            out.text(s);
-    }
+    titleRow(out, opts, {"name", "volatility", "signal-to-noise", "largest change %",
+                              "lag vs first", "correlation", "missing"});
     for (const auto& row : r.rows) {
         out.addRow();
         out.text(row.name);

@@ -138,10 +138,7 @@ OutTable hedonicCoefs(const std::vector<Arg>& a, const CallContext& ctx) {
     const HedonicFit fit = hedonicFit(in, o);
     constexpr std::size_t kWidth = 4;
     OutTable out;
-    if (opts.flag("titles", false)) {
-        out.addRow();
-        for (const char* s : {"term", "coefficient", "std error", "t"}) out.text(s);
-    }
+    titleRow(out, opts, {"term", "coefficient", "std error", "t"});
     for (const auto& t : fit.terms) {
         out.addRow();
         out.text(t.name);
@@ -174,10 +171,7 @@ OutTable refHomeValue(const std::vector<Arg>& a, const CallContext& ctx) {
     const RefHomeResult r = referenceHomeValue(in, home, o);
     constexpr std::size_t kWidth = 4;
     OutTable out;
-    if (opts.flag("titles", false)) {
-        out.addRow();
-        for (const char* s : {"period", "value", "lower", "upper"}) out.text(s);
-    }
+    titleRow(out, opts, {"period", "value", "lower", "upper"});
     for (int i = 0; i < r.axis.count; ++i) {
         out.addRow();
         out.num(r.axis.start(i) - ctx.dateOffset);

@@ -215,6 +215,12 @@ void readIndexOptions(IndexOptions& o, const Arg& freq, const Arg& base, const O
         throw InputError(fmt::format("option level must lie between 0 and 1, got {}", o.level));
 }
 
+void titleRow(OutTable& out, const OptionBag& opts, std::initializer_list<const char*> titles) {
+    if (!opts.flag("titles", false)) return;
+    out.addRow();
+    for (const char* s : titles) out.text(s);
+}
+
 void appendNotes(OutTable& out, const Diagnostics& d, std::size_t width) {
     auto row = [&](const std::string& label, double value, const std::string& text = {}) {
         out.addRow();
@@ -231,10 +237,7 @@ OutTable indexTableCells(const IndexResult& r, const OptionBag& opts, const Call
                          const char* countTitle) {
     OutTable out;
     const IndexTable& t = r.table;
-    if (opts.flag("titles", false)) {
-        out.addRow();
-        for (const char* s : {"period", "index", countTitle, "lower", "upper"}) out.text(s);
-    }
+    titleRow(out, opts, {"period", "index", countTitle, "lower", "upper"});
     for (int i = 0; i < t.axis.count; ++i) {
         out.addRow();
         out.num(t.axis.start(i) - ctx.dateOffset);

@@ -3,6 +3,7 @@
 // the "no value" cell are the same everywhere.
 #pragma once
 
+#include <initializer_list>
 #include <optional>
 #include <string>
 #include <vector>
@@ -70,6 +71,8 @@ void readIndexOptions(IndexOptions& o, const Arg& freq, const Arg& base, const O
 // titles row and, with notes=1, the diagnostics below the table.
 OutTable indexTableCells(const IndexResult& r, const OptionBag& opts, const CallContext& ctx,
                          const char* countTitle = "sales");
+// With titles=1, starts the output with a row of these column titles.
+void titleRow(OutTable& out, const OptionBag& opts, std::initializer_list<const char*> titles);
 // Appends the diagnostics (rows used, dropped by reason, warnings) as label | value rows.
 void appendNotes(OutTable& out, const Diagnostics& d, std::size_t width);
 
