@@ -14,6 +14,7 @@ HERE = os.path.dirname(os.path.abspath(__file__))
 sys.path.insert(0, os.path.join(HERE, "..", "scripts"))
 sys.path.insert(0, HERE)
 
+import pandas as pd  # noqa: E402
 import uno  # noqa: E402
 from com.sun.star.beans import NamedValue  # noqa: E402
 
@@ -72,7 +73,60 @@ def examples_sheet(doc, n):
                      ("D6:E49", "0.0"), ("C6:C49", "0"), ("G6:G49", "0.0"), ("I6:I49", "0.0"),
                      ("L6:L49", "0.0"), ("M6:M49", "0"), ("N6:O49", "0.0"), ("Q6", "#,##0")):
         ex.getCellRangeByName(ref).NumberFormat = number_format(doc, fmt)
-    ex.setPrintAreas((ex.getCellRangeByName("A1:R49").RangeAddress,))
+    comparables(doc, ex, n)
+    ex.setPrintAreas((ex.getCellRangeByName("A1:AB49").RangeAddress,))
+    pages = doc.StyleFamilies.getByName("PageStyles")
+    if not pages.hasByName("Lintel examples"):
+        pages.insertByName("Lintel examples", doc.createInstance("com.sun.star.style.PageStyle"))
+    style = pages.getByName("Lintel examples")
+    w, h = style.Width, style.Height
+    style.IsLandscape = True
+    style.Width, style.Height = max(w, h), min(w, h)
+    style.ScaleToPagesX, style.ScaleToPagesY = 1, 1
+    ex.PageStyle = "Lintel examples"
+
+
+def comparables(doc, ex, n):
+    """Three comparable sales of detached homes in Varnholt, time-adjusted to a valuation date
+    with the all-sales median index and with a Varnholt hedonic index: the two disagree
+    because the median also moves with the mix of homes sold."""
+    sales = market_model.generate()
+    d, p = f"$Sales.$A$2:$A${n}", f"$Sales.$B$2:$B${n}"
+    ex.getCellRangeByName("Q9").setString(
+        "Comparable sales (Varnholt, detached) time-adjusted to 2025-12-31")
+    ex.getCellRangeByName("Q9").CharWeight = 150
+    for c, h in zip("QRSTU", ["sale date", "price", "adjusted: median, all sales",
+                              "adjusted: hedonic, Varnholt", "difference %"]):
+        ex.getCellRangeByName(f"{c}10").setString(h)
+    picked = []
+    for year in (2017, 2019, 2022):
+        for row in sales.itertuples(index=False):
+            if (row.district == "Varnholt" and row.type == "detached" and isinstance(row.date, float)
+                    and isinstance(row.price, float)
+                    and (pd_year(row.date) == year) and row.price < 3_000_000):
+                picked.append(row)
+                break
+    for i, row in enumerate(picked):
+        r = 11 + i
+        ex.getCellRangeByName(f"Q{r}").setValue(row.date)
+        ex.getCellRangeByName(f"R{r}").setValue(row.price)
+        ex.getCellRangeByName(f"S{r}").setFormula(f"=PRICEADJUST(R{r};Q{r};DATE(2025;12;31);$A$6:$A$49;$B$6:$B$49)")
+        ex.getCellRangeByName(f"T{r}").setFormula(f"=PRICEADJUST(R{r};Q{r};DATE(2025;12;31);$W$6:$W$49;$X$6:$X$49)")
+        ex.getCellRangeByName(f"U{r}").setFormula(f"=100*(S{r}/T{r}-1)")
+    ex.getCellRangeByName("Q15").setString(
+        "An index moves a price with its market; it does not value a home. Use such figures as "
+        "an input to, not a substitute for, an appraisal.")
+    ex.getCellRangeByName("W4").setString("Hedonic, Varnholt, quarterly: type, floor area (log), lot, bedrooms, age")
+    ex.getCellRangeByName("W5:AA49").setArrayFormula(
+        f"=INDEXHEDONIC({d};{p};$Sales.$E$2:$I${n};($Sales.$D$2:$D${n}=\"Varnholt\");\"Q\";;\"log=2; titles=1\")")
+    for ref, fmt in (("Q11:Q13", "YYYY-MM-DD"), ("R11:T13", "#,##0"), ("U11:U13", "0.0"),
+                     ("W6:W49", "YYYY-\"Q\"Q"), ("X6:X49", "0.0"), ("Y6:Y49", "0"), ("Z6:AA49", "0.0")):
+        ex.getCellRangeByName(ref).NumberFormat = number_format(doc, fmt)
+
+
+def pd_year(serial):
+    """Calendar year of a date serial (day 0 = 1899-12-30)."""
+    return (market_model.EPOCH + pd.Timedelta(days=serial)).year
 
 
 def build(office, out_dir):
