@@ -216,3 +216,18 @@ class SharedOffice:
 
     def __getattr__(self, name):
         return getattr(self._office, name)
+
+
+class SheetCalls:
+    """Mixin for test cases with `self.doc` and `self.sheet`: write a formula, recalculate,
+    read the cells back."""
+
+    def array(self, ref, formula):
+        self.sheet.getCellRangeByName(ref).setArrayFormula(formula)
+        self.doc.calculateAll()
+        return sheet_values(self.sheet, ref)
+
+    def formula(self, ref, formula):
+        self.sheet.getCellRangeByName(ref).setFormula(formula)
+        self.doc.calculateAll()
+        return sheet_values(self.sheet, ref)[0][0]

@@ -46,7 +46,7 @@ from statsmodels.tsa.seasonal import seasonal_decompose
 HERE = os.path.dirname(os.path.abspath(__file__))
 sys.path.insert(0, os.path.join(HERE, "..", "..", "scripts"))
 sys.path.insert(0, os.path.join(HERE, "..", "reference"))
-from lintel_office import SharedOffice, sheet_values  # noqa: E402
+from lintel_office import SharedOffice, SheetCalls, sheet_values  # noqa: E402
 from refcommon import run_refcli  # noqa: E402
 
 OXT = os.environ.get("LINTEL_OXT")
@@ -190,16 +190,7 @@ def best_of(rows):
     return best
 
 
-class Sheet:
-    def array(self, ref, formula):
-        self.sheet.getCellRangeByName(ref).setArrayFormula(formula)
-        self.doc.calculateAll()
-        return sheet_values(self.sheet, ref)
-
-    def formula(self, ref, formula):
-        self.sheet.getCellRangeByName(ref).setFormula(formula)
-        self.doc.calculateAll()
-        return sheet_values(self.sheet, ref)[0][0]
+class Sheet(SheetCalls):
 
     def assertColumn(self, got, want, rel=1e-9, what=""):
         self.assertEqual(len(got), len(want), what)

@@ -20,7 +20,7 @@ import pandas as pd
 
 sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "..", "scripts"))
 import uno  # noqa: E402
-from lintel_office import SharedOffice, sheet_values  # noqa: E402
+from lintel_office import SharedOffice, SheetCalls, sheet_values  # noqa: E402
 
 OXT = os.environ.get("LINTEL_OXT")
 GEN_JSON = os.environ.get("LINTEL_TABLE_JSON")
@@ -58,7 +58,7 @@ def pandas_index(df, stat="median", freq="M", base=None):
     return starts, index, counts
 
 
-class CalcTest(unittest.TestCase):
+class CalcTest(SheetCalls, unittest.TestCase):
     @classmethod
     def setUpClass(cls):
         cls.df = make_sales()
@@ -73,15 +73,6 @@ class CalcTest(unittest.TestCase):
     def tearDownClass(cls):
         cls.doc.close(True)
 
-    def array(self, ref, formula):
-        self.sheet.getCellRangeByName(ref).setArrayFormula(formula)
-        self.doc.calculateAll()
-        return sheet_values(self.sheet, ref)
-
-    def formula(self, ref, formula):
-        self.sheet.getCellRangeByName(ref).setFormula(formula)
-        self.doc.calculateAll()
-        return sheet_values(self.sheet, ref)[0][0]
 
     def assertIndexTable(self, cells, starts, index, counts, rel=1e-12):
         self.assertEqual(len(cells), len(starts))
@@ -200,7 +191,7 @@ class CalcTest(unittest.TestCase):
             self.assertEqual([bool(a.IsOptional) for a in d["Arguments"]], [a["optional"] for a in f["args"]])
 
 
-class PackageTest(unittest.TestCase):
+class PackageTest(SheetCalls, unittest.TestCase):
     def test_extension_is_installed_with_complete_metadata(self):
         import xml.etree.ElementTree as ET
         pip = office.ctx.getValueByName("/singletons/com.sun.star.deployment.PackageInformationProvider")
@@ -217,7 +208,7 @@ class PackageTest(unittest.TestCase):
             self.assertIn("licensed professional", f.read())
 
 
-class BadInputTest(unittest.TestCase):
+class BadInputTest(SheetCalls, unittest.TestCase):
     """Bad input gives a clear message in the cell and never takes soffice down."""
 
     @classmethod
@@ -230,11 +221,6 @@ class BadInputTest(unittest.TestCase):
     @classmethod
     def tearDownClass(cls):
         cls.doc.close(True)
-
-    def array(self, ref, formula):
-        self.sheet.getCellRangeByName(ref).setArrayFormula(formula)
-        self.doc.calculateAll()
-        return sheet_values(self.sheet, ref)
 
     def test_mismatched_ranges(self):
         cells = self.array("D1:H2", "=INDEXMEDIAN(A1:A40;B1:B39)")
@@ -296,7 +282,7 @@ class BadInputTest(unittest.TestCase):
         self.assertTrue(office.alive())
 
 
-class NullDateTest(unittest.TestCase):
+class NullDateTest(SheetCalls, unittest.TestCase):
     def test_document_with_1904_null_date(self):
         from com.sun.star.util import Date
         doc = office.new_calc()

@@ -33,7 +33,7 @@ import statsmodels.api as sm
 from scipy import stats as sps
 
 sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "..", "scripts"))
-from lintel_office import SharedOffice, sheet_values  # noqa: E402
+from lintel_office import SharedOffice, SheetCalls, sheet_values  # noqa: E402
 
 OXT = os.environ.get("LINTEL_OXT")
 EPOCH = pd.Timestamp("1899-12-30")
@@ -196,7 +196,7 @@ class Reference:
 # ---- the tests ---------------------------------------------------------------------------
 
 
-class HedonicCalcTest(unittest.TestCase):
+class HedonicCalcTest(SheetCalls, unittest.TestCase):
     @classmethod
     def setUpClass(cls):
         cls.df = make_sales()
@@ -213,11 +213,6 @@ class HedonicCalcTest(unittest.TestCase):
     @classmethod
     def tearDownClass(cls):
         cls.doc.close(True)
-
-    def array(self, ref, formula):
-        self.sheet.getCellRangeByName(ref).setArrayFormula(formula)
-        self.doc.calculateAll()
-        return sheet_values(self.sheet, ref)
 
     def assertCell(self, got, want, what):
         if want == "":
@@ -350,7 +345,7 @@ class HedonicCalcTest(unittest.TestCase):
                              ["dates", "prices", "characteristics", "include", "freq", "base", "options"])
 
 
-class HedonicBadInputTest(unittest.TestCase):
+class HedonicBadInputTest(SheetCalls, unittest.TestCase):
     """Bad input gives a clear "Lintel:" message or a counted drop, never a crash."""
 
     @classmethod
@@ -368,11 +363,6 @@ class HedonicBadInputTest(unittest.TestCase):
     @classmethod
     def tearDownClass(cls):
         cls.doc.close(True)
-
-    def array(self, ref, formula):
-        self.sheet.getCellRangeByName(ref).setArrayFormula(formula)
-        self.doc.calculateAll()
-        return sheet_values(self.sheet, ref)
 
     def test_drops_are_counted(self):
         n = self.n
