@@ -102,6 +102,22 @@ void printColumns(const std::vector<std::string>& names,
     }
 }
 
+std::vector<double> periodStarts(const lintel::PeriodAxis& axis) {
+    std::vector<double> v;
+    for (int i = 0; i < axis.count; ++i) v.push_back(axis.start(i));
+    return v;
+}
+
+std::vector<double> asNumbers(const std::vector<std::size_t>& counts) {
+    return std::vector<double>(counts.begin(), counts.end());
+}
+
+int printIndexTable(const lintel::IndexTable& tb) {
+    printColumns({"period", "index", "sales", "lower", "upper"},
+                 {periodStarts(tb.axis), tb.index, asNumbers(tb.count), tb.lower, tb.upper});
+    return 0;
+}
+
 }  // namespace refcli
 
 int main(int argc, char** argv) {

@@ -13,6 +13,8 @@
 #include <string>
 #include <vector>
 
+#include "index_table.hpp"
+
 namespace refcli {
 
 struct Table {
@@ -38,5 +40,10 @@ std::string text(const Args& a, const std::string& key, const std::string& fallb
 // Prints a CSV table: names then columns of equal length.
 void printColumns(const std::vector<std::string>& names,
                   const std::vector<std::vector<double>>& columns);
+// The period start serials of an axis, and counts as numbers, for printColumns.
+std::vector<double> periodStarts(const lintel::PeriodAxis& axis);
+std::vector<double> asNumbers(const std::vector<std::size_t>& counts);
+// The shared index layout: period, index, sales, lower, upper.
+int printIndexTable(const lintel::IndexTable& table);
 
 }  // namespace refcli

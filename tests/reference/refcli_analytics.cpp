@@ -83,14 +83,7 @@ const refcli::Register regMix("mix", [](const refcli::Table& t, const refcli::Ar
     std::fprintf(stderr, "strata=%zu weighted=%zu links=%zu empty=%zu thin=%zu unpriced=%zu\n",
                  r.strata, r.strataWeighted, r.links, r.emptyCells, r.thinCells,
                  r.unpricedAtReference);
-    std::vector<double> start, count;
-    for (int i = 0; i < r.table.axis.count; ++i) {
-        start.push_back(r.table.axis.start(i));
-        count.push_back(double(r.table.count[i]));
-    }
-    refcli::printColumns({"period", "index", "sales", "lower", "upper"},
-                         {start, r.table.index, count, r.table.lower, r.table.upper});
-    return 0;
+    return refcli::printIndexTable(r.table);
 });
 
 const refcli::Register regHp("hp", [](const refcli::Table& t, const refcli::Args& a) {

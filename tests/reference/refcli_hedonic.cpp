@@ -93,15 +93,7 @@ const refcli::Register regIndex("hedonic_index", [](const refcli::Table& t,
                                                     const refcli::Args& a) {
     const lintel::IndexResult r = lintel::hedonicIndex(readInput(t), readOptions(a));
     printDiag(r.diag);
-    const auto& tb = r.table;
-    std::vector<double> start, count;
-    for (int i = 0; i < tb.axis.count; ++i) {
-        start.push_back(tb.axis.start(i));
-        count.push_back(static_cast<double>(tb.count[i]));
-    }
-    refcli::printColumns({"period", "index", "sales", "lower", "upper"},
-                         {start, tb.index, count, tb.lower, tb.upper});
-    return 0;
+    return refcli::printIndexTable(r.table);
 });
 
 const refcli::Register regCoefs("hedonic_coefs", [](const refcli::Table& t,
@@ -153,13 +145,8 @@ const refcli::Register regHome("hedonic_home", [](const refcli::Table& t,
     }
     const lintel::RefHomeResult r = lintel::referenceHomeValue(in, home, readOptions(a));
     printDiag(r.diag);
-    std::vector<double> start, count;
-    for (int i = 0; i < r.axis.count; ++i) {
-        start.push_back(r.axis.start(i));
-        count.push_back(static_cast<double>(r.count[i]));
-    }
     refcli::printColumns({"period", "value", "lower", "upper", "sales"},
-                         {start, r.value, r.lower, r.upper, count});
+                         {refcli::periodStarts(r.axis), r.value, r.lower, r.upper, refcli::asNumbers(r.count)});
     const std::string out = refcli::text(a, "homeout", "");
     if (!out.empty()) {
         std::ofstream f(out);

@@ -22,15 +22,7 @@ int runRaw(const refcli::Table& t, const refcli::Args& a, bool median) {
     o.trim = refcli::number(a, "trim", 0);
     o.level = refcli::number(a, "level", 0.95);
     const lintel::IndexResult r = median ? lintel::indexMedian(in, o) : lintel::indexMean(in, o);
-    const auto& tb = r.table;
-    std::vector<double> start, count;
-    for (int i = 0; i < tb.axis.count; ++i) {
-        start.push_back(tb.axis.start(i));
-        count.push_back(static_cast<double>(tb.count[i]));
-    }
-    refcli::printColumns({"period", "index", "sales", "lower", "upper"},
-                         {start, tb.index, count, tb.lower, tb.upper});
-    return 0;
+    return refcli::printIndexTable(r.table);
 }
 
 const refcli::Register regMean("raw_mean", [](const auto& t, const auto& a) {

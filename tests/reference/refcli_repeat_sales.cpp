@@ -74,13 +74,9 @@ void num(double x, bool first = false) {
 
 int printIndex(const lintel::RepeatSalesResult& r) {
     const auto& tb = r.table;
-    std::vector<double> start, count;
-    for (int i = 0; i < tb.axis.count; ++i) {
-        start.push_back(tb.axis.start(i));
-        count.push_back(static_cast<double>(tb.count[i]));
-    }
     refcli::printColumns({"period", "index", "pairs", "lower", "upper", "log", "se", "df"},
-                         {start, tb.index, count, tb.lower, tb.upper, r.logIndex, r.logSe, r.df});
+                         {refcli::periodStarts(tb.axis), tb.index, refcli::asNumbers(tb.count), tb.lower,
+                          tb.upper, r.logIndex, r.logSe, r.df});
     std::fprintf(stderr, "%s\n", r.summary().c_str());
     for (const auto& w : r.diag.warnings) std::fprintf(stderr, "warning: %s\n", w.c_str());
     return 0;
