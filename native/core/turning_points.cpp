@@ -21,6 +21,21 @@ bool moreExtreme(const Turn& a, const Turn& b) {
     return a.peak ? a.value > b.value : a.value < b.value;
 }
 
+// Start of the shortest span turns[j] .. turns[j + stride] shorter than `limit` periods
+// (stride 2: a cycle between turns of one kind; 1: a phase), or turns.size() when none is.
+std::size_t shortestSpan(const std::vector<Turn>& turns, std::size_t stride, long limit) {
+    long best = limit;
+    std::size_t at = turns.size();
+    for (std::size_t j = 0; j + stride < turns.size(); ++j) {
+        const long span = turns[j + stride].key - turns[j].key;
+        if (span < best) {
+            best = span;
+            at = j;
+        }
+    }
+    return at;
+}
+
 Frequency resolveFrequency(const std::vector<double>& periods, const std::optional<Frequency>& f) {
     for (std::size_t i = 0; i < periods.size(); ++i)
         if (!isUsableSerial(periods[i]))
@@ -149,15 +164,7 @@ TurnsResult indexTurns(const TurnsInput& in, const TurnsOptions& o) {
         }
         // c. Cycles: the shortest too-short span between turns of one kind.
         {
-            long best = r.minCycle;
-            std::size_t at = turns.size();
-            for (std::size_t j = 0; j + 2 < turns.size(); ++j) {
-                const long span = turns[j + 2].key - turns[j].key;
-                if (span < best) {
-                    best = span;
-                    at = j;
-                }
-            }
+            const std::size_t at = shortestSpan(turns, 2, r.minCycle);
             if (at < turns.size()) {
                 // Remove the weaker of the two; ties: the later.
                 const std::size_t victim = moreExtreme(turns[at], turns[at + 2]) ||
@@ -172,15 +179,7 @@ TurnsResult indexTurns(const TurnsInput& in, const TurnsOptions& o) {
         }
         // d. Phases: the shortest too-short phase loses both turns.
         {
-            long best = r.minPhase;
-            std::size_t at = turns.size();
-            for (std::size_t j = 0; j + 1 < turns.size(); ++j) {
-                const long span = turns[j + 1].key - turns[j].key;
-                if (span < best) {
-                    best = span;
-                    at = j;
-                }
-            }
+            const std::size_t at = shortestSpan(turns, 1, r.minPhase);
             if (at < turns.size()) {
                 turns.erase(turns.begin() + static_cast<long>(at),
                             turns.begin() + static_cast<long>(at) + 2);
