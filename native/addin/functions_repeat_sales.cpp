@@ -28,15 +28,6 @@ constexpr std::size_t kPairsWidth = 10;
 
 const FunctionSpec& self(const char* method) { return *findFunctionByMethod(method); }
 
-// An id cell as the core's property id: text as it is (the core trims it), a number in the
-// canonical form propertyIdFromNumber gives (the same text as cellKey: 123 -> "123", so the
-// number 123 and the text "123" are one property), a blank cell "" (a blank id).
-std::string idOf(const Cell& c) {
-    if (c.isNumber()) return propertyIdFromNumber(c.number);
-    if (c.isText()) return c.text;
-    return {};
-}
-
 // ids, dates, prices, changed, include -> RepeatSalesInput. The row checks name ids first
 // ("ids has 100 rows, dates has 99"); include, the header row and empty rows go through
 // readSales.
@@ -64,8 +55,9 @@ RepeatSalesInput readInput(const std::vector<Arg>& a, const OptionBag& opts,
     RepeatSalesInput in;
     in.sales = readSales(a[kDates], a[kPrices], a[kInclude], opts, ctx, {{"ids", &ids}});
     const std::size_t h = headerRows(opts);
-    in.id.reserve(ids.rows - h);
-    for (std::size_t i = h; i < ids.rows; ++i) in.id.push_back(idOf(ids.at(i, 0)));
+    // Ids as cellKey writes them: text as it is (the core trims it), numbers in canonical form
+    // (the same text as the core's propertyIdFromNumber, so 123 and "123" are one property).
+    in.id = keyColumn(ids, h);
     if (changed) {
         in.changed.reserve(changed->rows - h);
         for (std::size_t i = h; i < changed->rows; ++i)
