@@ -69,13 +69,6 @@ std::vector<double> indexColumn(const Arg& a, const char* name, std::size_t firs
     return numberColumn(r, first);
 }
 
-void labelRow(OutTable& out, const std::string& label, double value, std::size_t width) {
-    out.addRow();
-    out.text(label);
-    out.num(value);
-    for (std::size_t i = 2; i < width; ++i) out.none();
-}
-
 OutTable scalarResult(double x) {
     OutTable out;
     out.scalar = true;

@@ -116,14 +116,6 @@ HomeInput readHome(const Arg& arg, std::size_t header) {
     return home;
 }
 
-// label | value | blank ... (width cells).
-void labelRow(OutTable& out, const std::string& label, double value, std::size_t width) {
-    out.addRow();
-    out.text(label);
-    out.num(value);
-    for (std::size_t i = 2; i < width; ++i) out.none();
-}
-
 OutTable indexHedonic(const std::vector<Arg>& a, const CallContext& ctx) {
     const OptionBag opts = OptionBag::parse(a[kIndexArgs.options], self("indexHedonic"));
     const HedonicOptions o = readOptions(a, kIndexArgs, opts, ctx);

@@ -221,16 +221,22 @@ void titleRow(OutTable& out, const OptionBag& opts, std::initializer_list<const 
     for (const char* s : titles) out.text(s);
 }
 
+void labelRow(OutTable& out, const std::string& label, double value, std::size_t width) {
+    out.addRow();
+    out.text(label);
+    out.num(value);
+    for (std::size_t i = 2; i < width; ++i) out.none();
+}
+
 void appendNotes(OutTable& out, const Diagnostics& d, std::size_t width) {
-    auto row = [&](const std::string& label, double value, const std::string& text = {}) {
+    labelRow(out, "rows used", static_cast<double>(d.rowsUsed), width);
+    for (const auto& [why, n] : d.dropped) labelRow(out, "dropped: " + why, static_cast<double>(n), width);
+    for (const auto& w : d.warnings) {
         out.addRow();
-        out.text(label);
-        if (text.empty()) out.num(value); else out.text(text);
+        out.text("warning");
+        out.text(w);
         for (std::size_t i = 2; i < width; ++i) out.none();
-    };
-    row("rows used", static_cast<double>(d.rowsUsed));
-    for (const auto& [why, n] : d.dropped) row("dropped: " + why, static_cast<double>(n));
-    for (const auto& w : d.warnings) row("warning", 0, w);
+    }
 }
 
 OutTable indexTableCells(const IndexResult& r, const OptionBag& opts, const CallContext& ctx,

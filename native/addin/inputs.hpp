@@ -73,6 +73,8 @@ OutTable indexTableCells(const IndexResult& r, const OptionBag& opts, const Call
                          const char* countTitle = "sales");
 // With titles=1, starts the output with a row of these column titles.
 void titleRow(OutTable& out, const OptionBag& opts, std::initializer_list<const char*> titles);
+// Appends a row label | value, padded with no-value cells to `width` cells.
+void labelRow(OutTable& out, const std::string& label, double value, std::size_t width);
 // Appends the diagnostics (rows used, dropped by reason, warnings) as label | value rows.
 void appendNotes(OutTable& out, const Diagnostics& d, std::size_t width);
 
