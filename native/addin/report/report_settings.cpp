@@ -97,7 +97,6 @@ ReportSettings ReportSettings::parse(const std::string& text) {
     ReportSettings s;
     std::istringstream in(text);
     std::string line;
-    bool sawMethods = false;
     while (std::getline(in, line)) {
         line = trim(line);
         if (line.empty() || line[0] == '#') continue;
@@ -122,7 +121,6 @@ ReportSettings ReportSettings::parse(const std::string& text) {
             if (value.empty() || *end || !(s.level > 0 && s.level < 1))
                 throw InputError(fmt::format("report setting level must lie between 0 and 1, got \"{}\"", value));
         } else if (key == "methods") {
-            sawMethods = true;
             s.methods.clear();
             for (const auto& k : splitList(value)) {
                 auto it = std::find_if(allMethods().begin(), allMethods().end(),
@@ -140,7 +138,6 @@ ReportSettings ReportSettings::parse(const std::string& text) {
             throw InputError(fmt::format("unknown report setting \"{}\"", key));
         }
     }
-    (void)sawMethods;
     // Keep report order whatever order the text listed.
     std::vector<Method> ordered;
     for (Method m : allMethods())
