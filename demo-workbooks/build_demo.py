@@ -42,7 +42,7 @@ def report_settings(n_rows, segment=None):
     return "\n".join(lines) + "\n"
 
 
-def examples_sheet(doc, n):
+def examples_sheet(doc, sales, n):
     sheets = doc.Sheets
     sheets.insertNewByName("Examples", sheets.Count)
     ex = sheets.getByName("Examples")
@@ -73,7 +73,7 @@ def examples_sheet(doc, n):
                      ("D6:E49", "0.0"), ("C6:C49", "0"), ("G6:G49", "0.0"), ("I6:I49", "0.0"),
                      ("L6:L49", "0.0"), ("M6:M49", "0"), ("N6:O49", "0.0"), ("Q6", "#,##0")):
         ex.getCellRangeByName(ref).NumberFormat = number_format(doc, fmt)
-    comparables(doc, ex, n)
+    comparables(doc, ex, sales, n)
     ex.setPrintAreas((ex.getCellRangeByName("A1:AB49").RangeAddress,))
     pages = doc.StyleFamilies.getByName("PageStyles")
     if not pages.hasByName("Lintel examples"):
@@ -86,11 +86,10 @@ def examples_sheet(doc, n):
     ex.PageStyle = "Lintel examples"
 
 
-def comparables(doc, ex, n):
+def comparables(doc, ex, sales, n):
     """Three comparable sales of detached homes in Varnholt, time-adjusted to a valuation date
     with the all-sales median index and with a Varnholt hedonic index: the two disagree
     because the median also moves with the mix of homes sold."""
-    sales = market_model.generate()
     d, p = f"$Sales.$A$2:$A${n}", f"$Sales.$B$2:$B${n}"
     ex.getCellRangeByName("Q9").setString(
         "Comparable sales (Varnholt, detached) time-adjusted to 2025-12-31")
@@ -150,7 +149,7 @@ def build(office, out_dir):
     print(status)
     if status.startswith("Lintel:"):
         raise SystemExit(f"report failed: {status}")
-    examples_sheet(doc, n)
+    examples_sheet(doc, sales, n)
     doc.calculateAll()
 
     tmp_ods = os.path.join(office.scratch, "lintel-demo.ods")
