@@ -88,7 +88,7 @@ class Office:
              "--norestore", "--nodefault", "--nolockcheck",
              f"-env:UserInstallation={self.profile_url}",
              f"--accept=socket,host=127.0.0.1,port={self.port};urp;StarOffice.ComponentContext"],
-            env=self.env, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL,
+            env=self.env, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL, cwd=self.tmp,
             start_new_session=True, **self._user_kwargs())
         self.ctx = self._connect()
         self.smgr = self.ctx.ServiceManager
@@ -129,12 +129,14 @@ class Office:
             return False
 
     # --- helpers ---------------------------------------------------------------------------
+    # The office runs in its own temporary folder: as `nobody` it may not enter the caller's
+    # folder (a clone in a private mktemp -d folder, say), and unopkg then fails silently.
     def _user_kwargs(self):
         return {"user": self.user[0], "group": self.user[1]} if self.user else {}
 
     def _run(self, cmd, timeout):
         return subprocess.run(cmd, env=self.env, capture_output=True, text=True, timeout=timeout,
-                              **self._user_kwargs())
+                              cwd=self.tmp, **self._user_kwargs())
 
     def _connect(self, timeout=90):
         local = uno.getComponentContext()
