@@ -29,6 +29,42 @@ def prop(name, value):
     return p
 
 
+def _enterable(path, user):
+    """True when every folder from / down to path lets `user` (a pwd entry) pass through."""
+    path = os.path.abspath(path)
+    while True:
+        st = os.stat(path)
+        if not (st.st_mode & 0o001 or (st.st_uid == user.pw_uid and st.st_mode & 0o100)
+                or (st.st_gid == user.pw_gid and st.st_mode & 0o010)):
+            return False
+        parent = os.path.dirname(path)
+        if parent == path:
+            return True
+        path = parent
+
+
+def reachable_profile(profile, user):
+    """The folder to use for a kept profile when the office runs as `user` (root's case).
+    When user may not reach `profile` (a clone in a private folder), the profile lives in a
+    folder of its own under /var/tmp and `profile` becomes a link to it, so the path the
+    README names still works."""
+    profile = os.path.abspath(profile)
+    if os.path.islink(profile):
+        return os.path.realpath(profile)
+    parent = os.path.dirname(profile)
+    os.makedirs(parent, exist_ok=True)
+    if _enterable(parent, user):
+        return profile
+    import hashlib
+    real = os.path.join("/var/tmp", "lintel-profile-" + hashlib.sha1(profile.encode()).hexdigest()[:12])
+    os.makedirs(real, exist_ok=True)
+    os.chmod(real, 0o755)
+    if os.path.isdir(profile):
+        shutil.rmtree(profile)  # an unusable earlier attempt
+    os.symlink(real, profile)
+    return real
+
+
 def free_port():
     with socket.socket() as s:
         s.bind(("127.0.0.1", 0))
@@ -59,6 +95,7 @@ class Office:
             self.user = (nobody.pw_uid, nobody.pw_gid)
             os.chown(self.home, *self.user)
             if self.fixed_profile:
+                self.profile = reachable_profile(self.fixed_profile, nobody)
                 os.makedirs(self.profile, exist_ok=True)
                 for root, dirs, files in os.walk(self.profile):
                     for name in dirs + files:
