@@ -1,9 +1,11 @@
 #include "function_table.hpp"
 
 #include <exception>
+#include <stdexcept>
 
 #include <fmt/format.h>
 
+#include "call.hpp"
 #include "diagnostics.hpp"
 
 namespace lintel::addin {
@@ -31,12 +33,44 @@ const FunctionSpec* findFunctionByName(std::string_view name) {
     return nullptr;
 }
 
+const FunctionSpec& functionSpec(std::string_view name) {
+    const FunctionSpec* f = findFunctionByName(name);
+    if (!f) throw std::logic_error(fmt::format("no Lintel function {}", name));
+    return *f;
+}
+
+int FunctionSpec::argIndex(std::string_view argName) const {
+    for (std::size_t i = 0; i < args.size(); ++i)
+        if (args[i].name == argName) return static_cast<int>(i);
+    return -1;
+}
+
+const OptionSpec* FunctionSpec::option(std::string_view key) const {
+    for (const auto& o : options)
+        if (o.key == key) return &o;
+    return nullptr;
+}
+
+std::string formulaCall(const FunctionSpec& spec,
+                        const std::vector<std::pair<std::string, std::string>>& named) {
+    std::vector<std::string> values(spec.args.size());
+    for (const auto& [name, value] : named) {
+        const int i = spec.argIndex(name);
+        if (i < 0) throw std::logic_error(fmt::format("{} has no argument \"{}\"", spec.name, name));
+        values[static_cast<std::size_t>(i)] = value;
+    }
+    while (!values.empty() && values.back().empty()) values.pop_back();
+    std::string out = spec.name + "(";
+    for (std::size_t i = 0; i < values.size(); ++i) out += (i ? ";" : "") + values[i];
+    return out + ")";
+}
+
 namespace {
 OutTable message(const std::string& text) {
     OutTable t;
     t.scalar = true;
     t.addRow();
-    t.text("Lintel: " + text);
+    t.text(text);
     return t;
 }
 }  // namespace
@@ -45,19 +79,23 @@ OutTable callFunction(const FunctionSpec& spec, const std::vector<Arg>& args,
                       const CallContext& ctx) noexcept {
     try {
         if (args.size() != spec.args.size())
-            return message(fmt::format("{} takes {} arguments, got {}", spec.name,
+            return message(fmt::format("Lintel: {} takes {} arguments, got {}", spec.name,
                                        spec.args.size(), args.size()));
-        OutTable t = spec.impl(args, ctx);
-        if (t.rows.empty()) return message("the result is empty");
+        const Call call(spec, args, ctx);
+        OutTable t = spec.impl(call);
+        call.checkEverythingRead();
+        if (t.rows.empty()) return message("Lintel: the result is empty");
         return t;
     } catch (const InputError& e) {
-        return message(e.what());
+        return message(std::string("Lintel: ") + e.what());
     } catch (const std::bad_alloc&) {
-        return message("out of memory: the ranges are too large");
+        return message("Lintel: out of memory: the ranges are too large");
     } catch (const std::exception& e) {
-        return message(fmt::format("internal error in {}: {}", spec.name, e.what()));
+        return message(fmt::format("{} in {} (a bug in Lintel; please report it): {}",
+                                   kInternalFault, spec.name, e.what()));
     } catch (...) {
-        return message(fmt::format("internal error in {}", spec.name));
+        return message(fmt::format("{} in {} (a bug in Lintel; please report it)", kInternalFault,
+                                   spec.name));
     }
 }
 

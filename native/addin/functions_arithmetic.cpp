@@ -3,6 +3,7 @@
 
 #include <fmt/format.h>
 
+#include "bind.hpp"
 #include "diagnostics.hpp"
 #include "function_table.hpp"
 #include "index_arithmetic.hpp"
@@ -19,9 +20,10 @@ struct SeriesRows {
     std::vector<int> rowOfInput;  // for each input row: position in series, or -1
 };
 
-SeriesRows readSeries(const Arg& periodsArg, const Arg& indexArg, const CallContext& ctx) {
-    const Range& periods = required(periodsArg, "periods");
-    const Range& index = required(indexArg, "index");
+SeriesRows readSeries(const Call& call) {
+    const Range& periods = call.required("periods");
+    const Range& index = call.required("index");
+    const CallContext& ctx = call.ctx();
     checkAligned({{"periods", &periods}, {"index", &index}});
     std::vector<double> start, value;
     SeriesRows out;
@@ -38,12 +40,22 @@ SeriesRows readSeries(const Arg& periodsArg, const Arg& indexArg, const CallCont
     return out;
 }
 
-OutTable rebase(const std::vector<Arg>& a, const CallContext& ctx) {
-    const SeriesRows s = readSeries(a[0], a[1], ctx);
-    const auto base = dateArg(a[2], "base", ctx);
+// The settings of the arithmetic functions, bound to their arguments.
+struct RebaseSettings {
+    std::optional<double> base;
+};
+struct ChangeSettings {
+    int lag = 1;
+    ChangeKind kind = ChangeKind::Percent;
+    Frequency freq = Frequency::Month;
+};
+
+OutTable rebase(const Call& call) {
+    const SeriesRows s = readSeries(call);
+    const auto base = call.options<RebaseSettings>().base;
     if (!base) throw InputError("base is required: a date in the new base period");
     const std::vector<double> v = rebaseIndex(s.series, *base);
-    const Range& index = *a[1];
+    const Range& index = call.required("index");
     OutTable out;
     for (std::size_t i = 0; i < s.rowOfInput.size(); ++i) {
         out.addRow();
@@ -54,21 +66,11 @@ OutTable rebase(const std::vector<Arg>& a, const CallContext& ctx) {
     return out;
 }
 
-OutTable change(const std::vector<Arg>& a, const CallContext&) {
-    const Range& index = required(a[0], "index");
+OutTable change(const Call& call) {
+    const Range& index = call.required("index");
     checkAligned({{"index", &index}});
-    const double lagValue = numberArg(a[1], "lag", 1);
-    if (lagValue != std::floor(lagValue) || lagValue < 1)
-        throw InputError(fmt::format("lag must be a whole number of at least 1, got {}", lagValue));
-    const std::string kindText = textArg(a[2], "kind", "pct");
-    ChangeKind kind;
-    if (kindText == "pct" || kindText == "PCT") kind = ChangeKind::Percent;
-    else if (kindText == "log" || kindText == "LOG") kind = ChangeKind::Log;
-    else if (kindText == "annual" || kindText == "ANNUAL") kind = ChangeKind::Annual;
-    else throw InputError(fmt::format("kind must be \"pct\", \"log\" or \"annual\", got \"{}\"", kindText));
-    const Frequency f = frequencyArg(a[3]);
-    const std::vector<double> v =
-        indexChange(numberColumn(index, 0), static_cast<int>(lagValue), kind, f);
+    const ChangeSettings o = call.options<ChangeSettings>();
+    const std::vector<double> v = indexChange(numberColumn(index, 0), o.lag, o.kind, o.freq);
     OutTable out;
     for (double x : v) {
         out.addRow();
@@ -84,11 +86,12 @@ struct Broadcast {
     const Cell& at(std::size_t i) const { return range->rows == 1 ? range->at(0, 0) : range->at(i, 0); }
 };
 
-OutTable adjust(const std::vector<Arg>& a, const CallContext& ctx) {
-    const Broadcast price{&required(a[0], "price"), "price"};
-    const Broadcast sale{&required(a[1], "saledate"), "saledate"};
-    const Broadcast target{&required(a[2], "targetdate"), "targetdate"};
-    const SeriesRows s = readSeries(a[3], a[4], ctx);
+OutTable adjust(const Call& call) {
+    const Broadcast price{&call.required("price"), "price"};
+    const Broadcast sale{&call.required("saledate"), "saledate"};
+    const Broadcast target{&call.required("targetdate"), "targetdate"};
+    const SeriesRows s = readSeries(call);
+    const CallContext& ctx = call.ctx();
     std::size_t n = 1;
     const char* longest = nullptr;
     for (const Broadcast* b : {&price, &sale, &target}) {
@@ -124,13 +127,16 @@ std::vector<FunctionSpec> arithmeticFunctions() {
     const ArgSpec periods{"periods", ArgKind::Range,
                           "The period column of an index table (period start dates)."};
     const ArgSpec index{"index", ArgKind::Range, "The index column aligned with periods."};
-    std::vector<FunctionSpec> specs = {
+    ArgSpec rebaseBase = param("base", date<RebaseSettings>(&RebaseSettings::base),
+                               "A date in the new base period.");
+    rebaseBase.kind = ArgKind::Range;  // required
+    return {
         {"indexRebase",
          "INDEXREBASE",
          "Rebases an index column so that the period containing the base date is 100.",
-         {periods, index,
-          {"base", ArgKind::Range, "A date in the new base period."}},
+         {periods, index, rebaseBase},
          {},
+         {{"index", "0.0"}},
          "A column aligned with index: 100 * I(t) / I(base). Rows without a value stay blank; "
          "a title row is kept.",
          "=INDEXREBASE(E2:E61;F2:F61;DATE(2022;1;1))",
@@ -139,14 +145,20 @@ std::vector<FunctionSpec> arithmeticFunctions() {
          "INDEXCHANGE",
          "Change of an index over lag rows: percent (default), log points or annualised.",
          {{"index", ArgKind::Range, "An index column."},
-          {"lag", ArgKind::Optional,
-           "Rows to look back (default 1; 12 on a monthly index, 4 on a quarterly one is "
-           "year-over-year)."},
-          {"kind", ArgKind::Optional,
-           "\"pct\" 100 (I(t)/I(t-lag) - 1) (default); \"log\" 100 ln(I(t)/I(t-lag)); "
-           "\"annual\" the percent change annualised using freq."},
-          spec::freq()},
+          param("lag", whole<ChangeSettings>(&ChangeSettings::lag, 1, 100000),
+                "Rows to look back (default 1; 12 on a monthly index, 4 on a quarterly one is "
+                "year-over-year)."),
+          param("kind",
+                choice<ChangeSettings>(&ChangeSettings::kind,
+                                       std::vector<std::pair<std::string, ChangeKind>>{
+                                           {"pct", ChangeKind::Percent},
+                                           {"log", ChangeKind::Log},
+                                           {"annual", ChangeKind::Annual}}),
+                "\"pct\" 100 (I(t)/I(t-lag) - 1) (default); \"log\" 100 ln(I(t)/I(t-lag)); "
+                "\"annual\" the percent change annualised using freq."),
+          spec::freq<ChangeSettings>()},
          {},
+         {{"change", "0.00"}},
          "A column aligned with index; the first lag rows and rows where either value is "
          "missing stay blank.",
          "=INDEXCHANGE(F2:F61;12)",
@@ -160,15 +172,12 @@ std::vector<FunctionSpec> arithmeticFunctions() {
           {"targetdate", ArgKind::Range, "The date to adjust to, or a column of dates."},
           periods, index},
          {},
+         {{"adjusted price", "#,##0"}},
          "One value, or a column when any input is a column. A date outside the index or on a "
          "period without a value gives a message in that cell.",
          "=PRICEADJUST(B2;A2;DATE(2024;6;30);E$2:E$61;F$2:F$61)",
          adjust},
     };
-    specs[0].formats = {"0.0"};    // rebased index
-    specs[1].formats = {"0.00"};   // change
-    specs[2].formats = {"#,##0"};  // adjusted price
-    return specs;
 }
 
 }  // namespace lintel::addin

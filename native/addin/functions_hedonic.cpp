@@ -9,6 +9,7 @@
 #include <fmt/format.h>
 
 #include "diagnostics.hpp"
+#include "bind.hpp"
 #include "function_table.hpp"
 #include "hedonic.hpp"
 #include "inputs.hpp"
@@ -16,16 +17,6 @@
 namespace lintel::addin {
 
 namespace {
-
-// Argument positions shared by the three functions: dates, prices, characteristics, then
-// (REFHOMEVALUE only) home, then include, freq, base, options.
-struct Positions {
-    std::size_t include, freq, base, options;
-};
-constexpr Positions kIndexArgs{3, 4, 5, 6};
-constexpr Positions kHomeArgs{4, 5, 6, 7};
-
-const FunctionSpec& self(const char* method) { return *findFunctionByMethod(method); }
 
 // characteristics -> one CharacteristicColumn per column, classified by the core's rule
 // (classifyColumn). With header=1 the first row holds the column names.
@@ -51,49 +42,17 @@ std::vector<CharacteristicColumn> readCharacteristics(const Range& chars, std::s
     return out;
 }
 
-HedonicInput readInput(const std::vector<Arg>& a, const Positions& p, const OptionBag& opts,
-                       const CallContext& ctx) {
-    const Range& chars = required(a[2], "characteristics");
+HedonicInput readInput(const Call& call) {
+    const Range& chars = call.required("characteristics");
     HedonicInput in;
     // Checks that dates, prices, include and characteristics have the same rows.
-    in.sales = readSales(a[0], a[1], a[p.include], opts, ctx, {{"characteristics", &chars}});
-    in.characteristics = readCharacteristics(chars, headerRows(opts));
+    in.sales = readSales(call, {{"characteristics", &chars}});
+    in.characteristics = readCharacteristics(chars, call.headerRows());
     return in;
 }
 
-// A list of column numbers as the core's ints (a huge number stays out of range rather than
-// wrapping round).
-std::vector<int> columnList(const OptionBag& opts, const char* key) {
-    std::vector<int> out;
-    for (long v : opts.integerList(key)) out.push_back(v > INT_MAX ? INT_MAX : static_cast<int>(v));
-    return out;
-}
-
-HedonicOptions readOptions(const std::vector<Arg>& a, const Positions& p, const OptionBag& opts,
-                           const CallContext& ctx) {
-    HedonicOptions o;
-    readIndexOptions(o, a[p.freq], a[p.base], opts, ctx);
-    if (opts.number("window", 0) > 1e6)
-        throw InputError(fmt::format(
-            "option window must be 0 or a number of periods up to 1000000, got {}",
-            opts.number("window", 0)));
-    o.window = static_cast<int>(opts.integer("window", 0, 0));  // 1: the core says why not
-    o.se = opts.choice("se", "classical", {"classical", "hc1"}) == "hc1"
-               ? HedonicStdErr::HC1
-               : HedonicStdErr::Classical;
-    o.bias = opts.choice("bias", "none", {"none", "kennedy"}) == "kennedy" ? HedonicBias::Kennedy
-                                                                           : HedonicBias::None;
-    o.retransform = opts.choice("retransform", "smearing", {"smearing", "lognormal"}) ==
-                            "lognormal"
-                        ? Retransform::Lognormal
-                        : Retransform::Smearing;
-    o.logColumns = columnList(opts, "log");
-    o.categoricalColumns = columnList(opts, "categorical");
-    return o;
-}
-
 // home -> HomeInput: one row, a cell per characteristics column (with header=1 a header row
-// above it may be included). Omitted, or a single blank cell: the typical home (both vectors
+// above it may be included). Omitted, or a single blank cell: the base period's median home (both vectors
 // empty). The core checks the number of cells against the characteristics.
 HomeInput readHome(const Arg& arg, std::size_t header) {
     HomeInput home;
@@ -116,21 +75,17 @@ HomeInput readHome(const Arg& arg, std::size_t header) {
     return home;
 }
 
-OutTable indexHedonic(const std::vector<Arg>& a, const CallContext& ctx) {
-    const OptionBag opts = OptionBag::parse(a[kIndexArgs.options], self("indexHedonic"));
-    const HedonicOptions o = readOptions(a, kIndexArgs, opts, ctx);
-    const HedonicInput in = readInput(a, kIndexArgs, opts, ctx);
-    return indexTableCells(hedonicIndex(in, o), opts, ctx);
+OutTable indexHedonic(const Call& call) {
+    const HedonicOptions o = call.options<HedonicOptions>();
+    return indexTableCells(hedonicIndex(readInput(call), o), call);
 }
 
-OutTable hedonicCoefs(const std::vector<Arg>& a, const CallContext& ctx) {
-    const OptionBag opts = OptionBag::parse(a[kIndexArgs.options], self("hedonicCoefs"));
-    const HedonicOptions o = readOptions(a, kIndexArgs, opts, ctx);
-    const HedonicInput in = readInput(a, kIndexArgs, opts, ctx);
-    const HedonicFit fit = hedonicFit(in, o);
-    constexpr std::size_t kWidth = 4;
+OutTable hedonicCoefs(const Call& call) {
+    const HedonicOptions o = call.options<HedonicOptions>();
+    const HedonicFit fit = hedonicFit(readInput(call), o);
+    const std::size_t kWidth = call.spec().width();
     OutTable out;
-    titleRow(out, opts, {"term", "coefficient", "std error", "t"});
+    titleRow(out, call);
     for (const auto& t : fit.terms) {
         out.addRow();
         out.text(t.name);
@@ -151,32 +106,31 @@ OutTable hedonicCoefs(const std::vector<Arg>& a, const CallContext& ctx) {
     out.text("dropped terms");
     if (dropped.empty()) out.none(); else out.text(dropped);
     for (std::size_t i = 2; i < kWidth; ++i) out.none();
-    if (opts.flag("notes", false)) appendNotes(out, fit.diag, kWidth);
+    if (call.layout().notes) appendNotes(out, fit.diag, kWidth);
     return out;
 }
 
-OutTable refHomeValue(const std::vector<Arg>& a, const CallContext& ctx) {
-    const OptionBag opts = OptionBag::parse(a[kHomeArgs.options], self("refHomeValue"));
-    const HedonicOptions o = readOptions(a, kHomeArgs, opts, ctx);
-    const HedonicInput in = readInput(a, kHomeArgs, opts, ctx);
-    const HomeInput home = readHome(a[3], headerRows(opts));
+OutTable refHomeValue(const Call& call) {
+    const HedonicOptions o = call.options<HedonicOptions>();
+    const HedonicInput in = readInput(call);
+    const HomeInput home = readHome(call.arg("home"), call.headerRows());
     const RefHomeResult r = referenceHomeValue(in, home, o);
-    constexpr std::size_t kWidth = 4;
+    const std::size_t kWidth = call.spec().width();
     OutTable out;
-    titleRow(out, opts, {"period", "value", "lower", "upper"});
+    titleRow(out, call);
     for (int i = 0; i < r.axis.count; ++i) {
         out.addRow();
-        out.num(r.axis.start(i) - ctx.dateOffset);
+        out.num(r.axis.start(i) - call.ctx().dateOffset);
         out.num(r.value[i]);
         out.num(r.lower[i]);
         out.num(r.upper[i]);
     }
-    if (opts.flag("notes", false)) {
+    if (call.layout().notes) {
         for (const auto& c : r.home) {
             out.addRow();
             out.text("home: " + c.column);
             if (c.categorical) out.text(c.level); else out.num(c.number);
-            if (c.typical) out.text("typical"); else out.none();
+            if (c.typical) out.text("base-period median home"); else out.none();
             out.none();
         }
         labelRow(out, "retransformation factor", r.retransformFactor, kWidth);
@@ -195,76 +149,91 @@ ArgSpec characteristicsArg() {
 ArgSpec homeArg() {
     return {"home", ArgKind::Optional,
             "The reference home: one row with a value per characteristics column, in the same "
-            "order. Left empty (or a blank cell): the typical home, i.e. the base period's "
-            "median of each number column and most frequent level of each category column; a "
-            "blank cell takes that column's typical value. With header=1 the range may include "
-            "its header row."};
+            "order. Left empty (or a blank cell): the base period's median home, i.e. the base "
+            "period's median of each number column and most frequent level of each category "
+            "column; a blank cell takes that column's base-period value. With header=1 the "
+            "range may include its header row."};
 }
+using O = HedonicOptions;
+
 OptionSpec logOption() {
-    return {"log", "none",
-            "Characteristics columns (1 = leftmost) that enter as natural logs, e.g. "
-            "\"log=1,3\" for floor area and lot size. Zero or negative values drop the row."};
+    return option("log", columns<O>(&O::logColumns),
+                  "Characteristics columns (1 = leftmost) that enter as natural logs, e.g. "
+                  "\"log=1,3\" for floor area and lot size. Zero or negative values drop the row.");
 }
 OptionSpec categoricalOption() {
-    return {"categorical", "none",
-            "Number columns to treat as categories, e.g. \"categorical=2\" for bedrooms or a "
-            "district code. Text columns always are."};
+    return option("categorical", columns<O>(&O::categoricalColumns),
+                  "Number columns to treat as categories, e.g. \"categorical=2\" for bedrooms or "
+                  "a district code. Text columns always are.");
 }
 OptionSpec windowOption() {
-    return {"window", "0",
-            "0: one pooled fit over all periods (past values revise as sales are added). k >= 2: "
-            "rolling window of k periods chained period to period, published values never "
-            "revise; 2 is the adjacent-period method."};
+    return option("window", whole<O>(&O::window, 0, 1000000),
+                  "0: one pooled fit over all periods (past values revise as sales are added). k "
+                  ">= 2: rolling window of k periods chained period to period, published values "
+                  "never revise; 2 is the adjacent-period method.");
 }
 OptionSpec seOption() {
-    return {"se", "classical",
-            "Standard errors and bands: \"classical\" OLS, or \"hc1\" heteroskedasticity-robust "
-            "(White, HC1)."};
+    return option("se",
+                  choice<O>(&O::se, std::vector<std::pair<std::string, HedonicStdErr>>{
+                                        {"classical", HedonicStdErr::Classical},
+                                        {"hc1", HedonicStdErr::HC1}}),
+                  "Standard errors and bands: \"classical\" OLS, or \"hc1\" "
+                  "heteroskedasticity-robust (White, HC1).");
 }
 OptionSpec biasOption() {
-    return {"bias", "none",
-            "\"kennedy\": Kennedy's (1981) correction 100 exp(d - var(d)/2) of the index; "
-            "\"none\": 100 exp(d)."};
+    return option("bias",
+                  choice<O>(&O::bias, std::vector<std::pair<std::string, HedonicBias>>{
+                                          {"none", HedonicBias::None},
+                                          {"kennedy", HedonicBias::Kennedy}}),
+                  "\"kennedy\": Kennedy's (1981) correction 100 exp(d - var(d)/2) of the index; "
+                  "\"none\": 100 exp(d).");
 }
 OptionSpec headerOption() {
-    return {"header", "0",
-            "1 when every input range starts with a header row: it is skipped, and the "
-            "characteristics' header gives the term names (else x1, x2 ...)."};
+    OptionSpec h = spec::header();
+    h.description =
+        "1 when every input range starts with a header row: it is skipped, and the "
+        "characteristics' header gives the term names (else x1, x2 ...).";
+    return h;
 }
 OptionSpec minsalesOption() {
-    return {"minsales", "1",
-            "Periods with fewer sales than this show no value (blank cells); their sales still "
-            "enter the fit."};
+    return spec::minsales<O>(
+        "Periods with fewer sales than this show no value (blank cells); their sales still "
+        "enter the fit.");
 }
 OptionSpec coefsMinsalesOption() {
-    return {"minsales", "1",
-            "Periods with fewer sales than this are not taken as the reference period (as in "
-            "INDEXHEDONIC they show no index value there); their sales still enter the fit."};
+    return spec::minsales<O>(
+        "Periods with fewer sales than this are not taken as the reference period (as in "
+        "INDEXHEDONIC they show no index value there); their sales still enter the fit.");
 }
 ArgSpec referenceArg() {
-    return {"base", ArgKind::Optional,
-            "A date; the period that contains it is the reference period: the intercept is its "
-            "log price level and each period term the difference to it. Empty: the first period "
-            "with a value."};
+    ArgSpec a = spec::base<O>();
+    a.description =
+        "A date; the period that contains it is the reference period: the intercept is its "
+        "log price level and each period term the difference to it. Empty: the first period "
+        "with a value.";
+    return a;
 }
 OptionSpec retransformOption() {
-    return {"retransform", "smearing",
-            "Back-transformation of the log price: \"smearing\" (Duan 1983, mean of "
-            "exp(residual)) or \"lognormal\" (exp(s^2/2), normal errors)."};
+    return option("retransform",
+                  choice<O>(&O::retransform, std::vector<std::pair<std::string, Retransform>>{
+                                                 {"smearing", Retransform::Smearing},
+                                                 {"lognormal", Retransform::Lognormal}}),
+                  "Back-transformation of the log price: \"smearing\" (Duan 1983, mean of "
+                  "exp(residual)) or \"lognormal\" (exp(s^2/2), normal errors).");
 }
 
 }  // namespace
 
 std::vector<FunctionSpec> hedonicFunctions() {
     const std::vector<ArgSpec> fitArgs = {spec::dates(), spec::prices(), characteristicsArg(),
-                                          spec::include(), spec::freq(), spec::base(),
+                                          spec::include(), spec::freq<O>(), spec::base<O>(),
                                           spec::options()};
     const std::vector<ArgSpec> coefsArgs = {spec::dates(), spec::prices(), characteristicsArg(),
-                                            spec::include(), spec::freq(), referenceArg(),
+                                            spec::include(), spec::freq<O>(), referenceArg(),
                                             spec::options()};
-    const std::vector<ArgSpec> homeArgs = {spec::dates(),   spec::prices(), characteristicsArg(),
-                                           homeArg(),       spec::include(), spec::freq(),
-                                           spec::base(),    spec::options()};
+    const std::vector<ArgSpec> homeArgs = {spec::dates(),   spec::prices(),  characteristicsArg(),
+                                           homeArg(),       spec::include(), spec::freq<O>(),
+                                           spec::base<O>(), spec::options()};
     FunctionSpec index{
         "indexHedonic",
         "INDEXHEDONIC",
@@ -273,8 +242,9 @@ std::vector<FunctionSpec> hedonicFunctions() {
         "the mix of homes sold.",
         fitArgs,
         {logOption(), categoricalOption(), windowOption(), seOption(), biasOption(),
-         minsalesOption(), spec::level(), headerOption(), spec::titles(), spec::notes()},
-        std::string(spec::kIndexOutput) +
+         minsalesOption(), spec::level<O>(), headerOption(), spec::titles(), spec::notes()},
+        spec::indexColumns(),
+        spec::indexOutput() +
             " Bands: the confidence interval of the change from the base period (the base row "
             "is 100 | 100).",
         "=INDEXHEDONIC(A2:A5001;B2:B5001;C2:F5001;;\"Q\";;\"log=1; categorical=2\")",
@@ -289,6 +259,7 @@ std::vector<FunctionSpec> hedonicFunctions() {
         coefsArgs,
         {logOption(), categoricalOption(), windowOption(), seOption(), coefsMinsalesOption(),
          headerOption(), spec::titles(), spec::notes()},
+        {{"term", ""}, {"coefficient", "0.0000"}, {"std error", "0.0000"}, {"t", "0.00"}},
         "4 columns: term | coefficient | std error | t, one row per term: (Intercept) (the "
         "reference period's log level), the characteristic terms (named from the header row "
         "with header=1, else x1, x2 ...; a category as name=level), then \"period 2024-03\" "
@@ -305,16 +276,14 @@ std::vector<FunctionSpec> hedonicFunctions() {
         "(retransformed from logs), with a confidence band for the model's price of that home.",
         homeArgs,
         {logOption(), categoricalOption(), windowOption(), seOption(), retransformOption(),
-         minsalesOption(), spec::level(), headerOption(), spec::titles(), spec::notes()},
+         minsalesOption(), spec::level<O>(), headerOption(), spec::titles(), spec::notes()},
+        {{"period", "YYYY-MM-DD"}, {"value", "#,##0"}, {"lower", "#,##0"}, {"upper", "#,##0"}},
         "4 columns, one row per period: period start date | value | lower band | upper band. "
         "Periods without enough sales show blank cells. With notes=1: the home used (one row "
-        "per characteristic, \"typical\" where the typical home filled it in), the "
+        "per characteristic, \"base-period median home\" where that home filled it in), the "
         "retransformation factor and the diagnostics.",
         "=REFHOMEVALUE(A2:A5001;B2:B5001;C2:F5001;H2:K2;;\"Q\";;\"log=1\")",
         refHomeValue};
-    index.formats = spec::indexFormats();
-    coefs.formats = {"", "0.0000", "0.0000", "0.00"};
-    home.formats = {"YYYY-MM-DD", "#,##0", "#,##0", "#,##0"};
     return {index, coefs, home};
 }
 

@@ -1,6 +1,7 @@
 // PERIODOF, INDEXMEAN, INDEXMEDIAN: table entries and implementations.
 #include <cmath>
 
+#include "bind.hpp"
 #include "function_table.hpp"
 #include "inputs.hpp"
 #include "raw_index.hpp"
@@ -9,9 +10,15 @@ namespace lintel::addin {
 
 namespace {
 
-OutTable periodOf(const std::vector<Arg>& a, const CallContext& ctx) {
-    const Range& dates = required(a[0], "date");
-    const Frequency f = frequencyArg(a[1]);
+// PERIODOF's own settings: only the frequency.
+struct PeriodOfOptions {
+    Frequency freq = Frequency::Month;
+};
+
+OutTable periodOf(const Call& call) {
+    const Range& dates = call.required("date");
+    const Frequency f = call.options<PeriodOfOptions>().freq;
+    const CallContext& ctx = call.ctx();
     OutTable out;
     out.scalar = dates.scalar;
     for (std::size_t r = 0; r < dates.rows; ++r) {
@@ -28,33 +35,33 @@ OutTable periodOf(const std::vector<Arg>& a, const CallContext& ctx) {
 }
 
 template <IndexResult (*Estimator)(const SalesInput&, const RawIndexOptions&)>
-OutTable rawIndex(const std::vector<Arg>& a, const CallContext& ctx, const FunctionSpec& spec) {
-    const OptionBag opts = OptionBag::parse(a[5], spec);
-    const SalesInput sales = readSales(a[0], a[1], a[2], opts, ctx);
-    RawIndexOptions o;
-    readIndexOptions(o, a[3], a[4], opts, ctx);
-    if (opts.has("trim")) o.trim = opts.number("trim", 0.0);
-    return indexTableCells(Estimator(sales, o), opts, ctx);
+OutTable rawIndex(const Call& call) {
+    const RawIndexOptions o = call.options<RawIndexOptions>();
+    return indexTableCells(Estimator(readSales(call), o), call);
 }
 
-const FunctionSpec& self(const char* method) { return *findFunctionByMethod(method); }
+std::string trimCheck(double x) {
+    return x >= 0 && x < 0.5 ? std::string() : std::string("must lie in [0, 0.5)");
+}
 
 }  // namespace
 
 std::vector<FunctionSpec> rawIndexFunctions() {
+    using O = RawIndexOptions;
     const std::vector<ArgSpec> indexArgs = {spec::dates(), spec::prices(), spec::include(),
-                                            spec::freq(), spec::base(), spec::options()};
+                                            spec::freq<O>(), spec::base<O>(), spec::options()};
     FunctionSpec periodOfSpec{
         "periodOf",
         "PERIODOF",
         "The start date of the month, quarter or year that contains a date. Works on one date "
         "or a whole column.",
-        {{"date", ArgKind::Range, "A date, or a range of dates."}, spec::freq()},
+        {{"date", ArgKind::Range, "A date, or a range of dates."}, spec::freq<PeriodOfOptions>()},
         {},
+        {{"period", "YYYY-MM-DD"}},
         "The period start date (format the cell as a date); a range gives a range of the same "
         "shape. Blank input cells stay blank.",
         "=PERIODOF(A2;\"Q\")",
-        [](const std::vector<Arg>& a, const CallContext& ctx) { return periodOf(a, ctx); }};
+        periodOf};
 
     FunctionSpec mean{
         "indexMean",
@@ -62,16 +69,16 @@ std::vector<FunctionSpec> rawIndexFunctions() {
         "Mean-price index: the mean sale price of each period relative to the base period "
         "(= 100), with a t-interval band. Raw: no adjustment for the mix of homes sold.",
         indexArgs,
-        {spec::minsales(),
-         {"trim", "0",
-          "Fraction of sales cut from each tail of a period before the mean (0.1 = 10 % of the "
-          "lowest and 10 % of the highest prices); the band is then the trimmed-mean interval."},
-         spec::level(), spec::header(), spec::titles(), spec::notes()},
-        spec::kIndexOutput,
+        {spec::minsales<O>(),
+         option("trim", number<O>(&O::trim, &trimCheck),
+                "Fraction of sales cut from each tail of a period before the mean (0.1 = 10 % of "
+                "the lowest and 10 % of the highest prices); the band is then the trimmed-mean "
+                "interval."),
+         spec::level<O>(), spec::header(), spec::titles(), spec::notes()},
+        spec::indexColumns(),
+        spec::indexOutput(),
         "=INDEXMEAN(A2:A5001;B2:B5001;(C2:C5001=\"North\");\"Q\")",
-        [](const std::vector<Arg>& a, const CallContext& ctx) {
-            return rawIndex<indexMean>(a, ctx, self("indexMean"));
-        }};
+        rawIndex<indexMean>};
 
     FunctionSpec median{
         "indexMedian",
@@ -80,14 +87,11 @@ std::vector<FunctionSpec> rawIndexFunctions() {
         "(= 100), with a distribution-free confidence band. Raw: no adjustment for the mix of "
         "homes sold.",
         indexArgs,
-        {spec::minsales(), spec::level(), spec::header(), spec::titles(), spec::notes()},
-        spec::kIndexOutput,
+        {spec::minsales<O>(), spec::level<O>(), spec::header(), spec::titles(), spec::notes()},
+        spec::indexColumns(),
+        spec::indexOutput(),
         "=INDEXMEDIAN(A2:A5001;B2:B5001)",
-        [](const std::vector<Arg>& a, const CallContext& ctx) {
-            return rawIndex<indexMedian>(a, ctx, self("indexMedian"));
-        }};
-    periodOfSpec.formats = {"YYYY-MM-DD"};
-    mean.formats = median.formats = spec::indexFormats();
+        rawIndex<indexMedian>};
     return {periodOfSpec, mean, median};
 }
 

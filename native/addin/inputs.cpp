@@ -52,11 +52,6 @@ std::size_t checkAligned(const std::vector<NamedRange>& ranges,
     return n;
 }
 
-const Range& required(const Arg& a, const char* name) {
-    if (!a) throw InputError(fmt::format("{} is required", name));
-    return *a;
-}
-
 namespace {
 std::optional<double> parseIsoDate(const std::string& s) {
     int y = 0, m = 0, d = 0;
@@ -121,62 +116,25 @@ std::vector<std::string> keyColumn(const Range& r, std::size_t first, std::size_
     return v;
 }
 
-namespace {
-const Cell* single(const Arg& a, const char* name) {
-    if (!a) return nullptr;
-    if (a->rows * a->cols != 1)
-        throw InputError(fmt::format("{} must be a single value, got {} x {} cells", name,
-                                     a->rows, a->cols));
-    const Cell& c = a->at(0, 0);
-    return c.isEmpty() ? nullptr : &c;
-}
-}  // namespace
-
-Frequency frequencyArg(const Arg& a) {
-    const Cell* c = single(a, "freq");
-    if (!c) return Frequency::Month;
-    const auto f = c->isText() ? parseFrequency(c->text) : std::nullopt;
-    if (!f)
-        throw InputError(fmt::format("freq must be \"M\", \"Q\" or \"Y\", got \"{}\"", cellKey(*c)));
-    return *f;
-}
-
-std::optional<double> dateArg(const Arg& a, const char* name, const CallContext& ctx) {
-    const Cell* c = single(a, name);
-    if (!c) return std::nullopt;
-    const double s = cellDate(*c, ctx);
-    if (!isUsableSerial(s))
-        throw InputError(fmt::format("{} must be a date, got \"{}\"", name, cellKey(*c)));
-    return s;
-}
-
-double numberArg(const Arg& a, const char* name, double fallback) {
-    const Cell* c = single(a, name);
-    if (!c) return fallback;
-    if (!c->isNumber())
-        throw InputError(fmt::format("{} must be a number, got \"{}\"", name, c->text));
-    return c->number;
-}
-
-std::string textArg(const Arg& a, const char* name, const std::string& fallback) {
-    const Cell* c = single(a, name);
-    if (!c) return fallback;
-    return cellKey(*c);
-}
-
-std::size_t headerRows(const OptionBag& opts) { return opts.flag("header", false) ? 1 : 0; }
-
-SalesInput readSales(const Arg& datesArg, const Arg& pricesArg, const Arg& includeArg,
-                     const OptionBag& opts, const CallContext& ctx,
-                     const std::vector<NamedRange>& extra) {
-    const Range& dates = required(datesArg, "dates");
-    const Range& prices = required(pricesArg, "prices");
+SalesInput readSales(const Call& call, const std::vector<NamedRange>& extra) {
+    const Range& dates = call.required("dates");
+    const Range& prices = call.required("prices");
+    const Arg& includeArg = call.arg("include");
     const Range* include = includeArg ? &*includeArg : nullptr;
     std::vector<NamedRange> all = {{"dates", &dates}, {"prices", &prices}};
     if (include) {
-        // A single value for include (e.g. 1) means "every row".
-        if (include->rows * include->cols == 1 && dates.rows != 1) include = nullptr;
-        else all.push_back({"include", include});
+        // A single value for include: 1 (or TRUE, or a blank) means "every row"; 0 or FALSE
+        // means none, which is said rather than silently ignored.
+        if (include->rows * include->cols == 1 && dates.rows != 1) {
+            const Cell& c = include->at(0, 0);
+            if (!c.isEmpty() && !cellFlag(c))
+                throw InputError(
+                    "include is a single 0 or FALSE: no sale is chosen (give a column of 1/0, "
+                    "or leave include empty for all sales)");
+            include = nullptr;
+        } else {
+            all.push_back({"include", include});
+        }
     }
     std::vector<const char*> multi;
     for (const auto& e : extra) {
@@ -184,11 +142,11 @@ SalesInput readSales(const Arg& datesArg, const Arg& pricesArg, const Arg& inclu
         multi.push_back(e.name);
     }
     const std::size_t n = checkAligned(all, multi);
-    const std::size_t h = headerRows(opts);
+    const std::size_t h = call.headerRows();
     if (n <= h) throw InputError("the ranges hold no rows below the header");
 
     SalesInput in;
-    in.date = dateColumn(dates, h, ctx);
+    in.date = dateColumn(dates, h, call.ctx());
     in.price = numberColumn(prices, h);
     if (include) {
         in.include.reserve(n - h);
@@ -205,18 +163,14 @@ SalesInput readSales(const Arg& datesArg, const Arg& pricesArg, const Arg& inclu
     return in;
 }
 
-void readIndexOptions(IndexOptions& o, const Arg& freq, const Arg& base, const OptionBag& opts,
-                      const CallContext& ctx) {
-    o.freq = frequencyArg(freq);
-    o.baseDate = dateArg(base, "base", ctx);
-    o.minSales = static_cast<std::size_t>(opts.integer("minsales", 1, 1));
-    o.level = opts.number("level", 0.95);
-    if (!(o.level > 0 && o.level < 1))
-        throw InputError(fmt::format("option level must lie between 0 and 1, got {}", o.level));
+void titleRow(OutTable& out, const Call& call) {
+    if (!call.layout().titles) return;
+    out.addRow();
+    for (const auto& c : call.spec().columns) out.text(c.title);
 }
 
-void titleRow(OutTable& out, const OptionBag& opts, std::initializer_list<const char*> titles) {
-    if (!opts.flag("titles", false)) return;
+void titleRow(OutTable& out, const Call& call, std::initializer_list<const char*> titles) {
+    if (!call.layout().titles) return;
     out.addRow();
     for (const char* s : titles) out.text(s);
 }
@@ -225,6 +179,14 @@ void labelRow(OutTable& out, const std::string& label, double value, std::size_t
     out.addRow();
     out.text(label);
     out.num(value);
+    for (std::size_t i = 2; i < width; ++i) out.none();
+}
+
+void labelTextRow(OutTable& out, const std::string& label, const std::string& text,
+                  std::size_t width) {
+    out.addRow();
+    out.text(label);
+    out.text(text);
     for (std::size_t i = 2; i < width; ++i) out.none();
 }
 
@@ -239,76 +201,21 @@ void appendNotes(OutTable& out, const Diagnostics& d, std::size_t width) {
     }
 }
 
-OutTable indexTableCells(const IndexResult& r, const OptionBag& opts, const CallContext& ctx,
-                         const char* countTitle) {
+OutTable indexTableCells(const IndexResult& r, const Call& call) {
     OutTable out;
     const IndexTable& t = r.table;
-    titleRow(out, opts, {"period", "index", countTitle, "lower", "upper"});
+    titleRow(out, call);
+    const double offset = call.ctx().dateOffset;
     for (int i = 0; i < t.axis.count; ++i) {
         out.addRow();
-        out.num(t.axis.start(i) - ctx.dateOffset);
+        out.num(t.axis.start(i) - offset);
         out.num(t.index[i]);
         out.num(static_cast<double>(t.count[i]));
         out.num(t.lower[i]);
         out.num(t.upper[i]);
     }
-    if (opts.flag("notes", false)) appendNotes(out, r.diag, 5);
+    if (call.layout().notes) appendNotes(out, r.diag, call.spec().width());
     return out;
 }
-
-namespace spec {
-
-OptionSpec minsales() {
-    return {"minsales", "1",
-            "Periods with fewer sales than this show no index value (blank, skipped by AVERAGE "
-            "and left as a gap in charts)."};
-}
-OptionSpec level() {
-    return {"level", "0.95", "Confidence level of the lower and upper band, between 0 and 1."};
-}
-OptionSpec header() {
-    return {"header", "0", "1 when the input ranges start with a header row, which is skipped."};
-}
-OptionSpec titles() {
-    return {"titles", "0", "1 to start the output with a row of column titles."};
-}
-OptionSpec notes() {
-    return {"notes", "0",
-            "1 to append the diagnostics below the table: rows used, rows dropped by reason, "
-            "warnings."};
-}
-ArgSpec dates() {
-    return {"dates", ArgKind::Range,
-            "Sale dates, one column (date cells or ISO text such as 2024-03-15)."};
-}
-ArgSpec prices() {
-    return {"prices", ArgKind::Range, "Sale prices, one column aligned with dates."};
-}
-ArgSpec include() {
-    return {"include", ArgKind::Optional,
-            "Optional column of 1/0 or TRUE/FALSE choosing the sales to use, e.g. "
-            "(C2:C5001=\"North\")*(D2:D5001=\"flat\"). Empty: all sales."};
-}
-ArgSpec freq() {
-    return {"freq", ArgKind::Optional, "Period length: \"M\" month (default), \"Q\" quarter, \"Y\" year."};
-}
-ArgSpec base() {
-    return {"base", ArgKind::Optional,
-            "A date; the period that contains it is the base period (index 100). Empty: the "
-            "first period with a value."};
-}
-ArgSpec options() {
-    return {"options", ArgKind::Optional,
-            "Optional settings as text \"key=value; key=value\" or a two-column range of keys "
-            "and values."};
-}
-std::vector<std::string> indexFormats() { return {"YYYY-MM-DD", "0.0", "0", "0.0", "0.0"}; }
-
-const char* kIndexOutput =
-    "One row per period from the first to the last period with a usable sale: period start "
-    "date | index (base period = 100) | sales used | lower band | upper band. Select fewer "
-    "columns to get the first ones. Periods without enough sales show blank cells.";
-
-}  // namespace spec
 
 }  // namespace lintel::addin

@@ -9,9 +9,9 @@
 #include <vector>
 
 #include "cell_model.hpp"
+#include "call.hpp"
 #include "function_table.hpp"
 #include "index_table.hpp"
-#include "options.hpp"
 #include "periods.hpp"
 #include "sales.hpp"
 
@@ -29,9 +29,6 @@ struct NamedRange {
 std::size_t checkAligned(const std::vector<NamedRange>& ranges,
                          const std::vector<const char*>& multiColumn = {});
 
-// The range of a required argument; "<name> is required" when missing.
-const Range& required(const Arg& a, const char* name);
-
 // A cell as a date serial (day 0 = 1899-12-30): a number (document serial + offset) or an
 // ISO text date "YYYY-MM-DD"; NaN otherwise.
 double cellDate(const Cell& c, const CallContext& ctx);
@@ -48,52 +45,23 @@ std::vector<double> dateColumn(const Range& r, std::size_t first, const CallCont
 std::vector<double> numberColumn(const Range& r, std::size_t first, std::size_t c = 0);
 std::vector<std::string> keyColumn(const Range& r, std::size_t first, std::size_t c = 0);
 
-// The common arguments of the index functions.
-Frequency frequencyArg(const Arg& a);                       // default month
-std::optional<double> dateArg(const Arg& a, const char* name, const CallContext& ctx);
-double numberArg(const Arg& a, const char* name, double fallback);
-std::string textArg(const Arg& a, const char* name, const std::string& fallback);
+// Reads the arguments "dates", "prices" and the optional "include" mask into a SalesInput (a
+// header row is skipped with header=1). Marks rows where every given cell is blank. `extra`
+// are further aligned ranges (characteristics, ids ...) checked for row count and counted in
+// the empty-row test.
+SalesInput readSales(const Call& call, const std::vector<NamedRange>& extra = {});
 
-// Reads dates, prices and the optional include mask into a SalesInput (a header row is
-// skipped when options say header=1). Marks rows where every given cell is blank.
-// `extra` are further aligned ranges (characteristics, ids ...) checked for row count and
-// counted in the empty-row test.
-SalesInput readSales(const Arg& dates, const Arg& prices, const Arg& include,
-                     const OptionBag& opts, const CallContext& ctx,
-                     const std::vector<NamedRange>& extra = {});
-std::size_t headerRows(const OptionBag& opts);
-
-// Fills the options every index function shares (freq, base, minsales, level).
-void readIndexOptions(IndexOptions& o, const Arg& freq, const Arg& base, const OptionBag& opts,
-                      const CallContext& ctx);
-
-// The shared index layout: period start | index | count | lower | upper, with an optional
-// titles row and, with notes=1, the diagnostics below the table.
-OutTable indexTableCells(const IndexResult& r, const OptionBag& opts, const CallContext& ctx,
-                         const char* countTitle = "sales");
-// With titles=1, starts the output with a row of these column titles.
-void titleRow(OutTable& out, const OptionBag& opts, std::initializer_list<const char*> titles);
+// The shared index layout: period start | index | count | lower | upper, with the titles row
+// (titles=1: the spec's column titles) and, with notes=1, the diagnostics below the table.
+OutTable indexTableCells(const IndexResult& r, const Call& call);
+// With titles=1, starts the output with a row of the spec's column titles (or these).
+void titleRow(OutTable& out, const Call& call);
+void titleRow(OutTable& out, const Call& call, std::initializer_list<const char*> titles);
 // Appends a row label | value, padded with no-value cells to `width` cells.
 void labelRow(OutTable& out, const std::string& label, double value, std::size_t width);
+void labelTextRow(OutTable& out, const std::string& label, const std::string& text,
+                  std::size_t width);
 // Appends the diagnostics (rows used, dropped by reason, warnings) as label | value rows.
 void appendNotes(OutTable& out, const Diagnostics& d, std::size_t width);
-
-// Common option and argument specs, described once.
-namespace spec {
-OptionSpec minsales();
-OptionSpec level();
-OptionSpec header();
-OptionSpec titles();
-OptionSpec notes();
-ArgSpec dates();
-ArgSpec prices();
-ArgSpec include();
-ArgSpec freq();
-ArgSpec base();
-ArgSpec options();
-extern const char* kIndexOutput;
-// period | index | count | lower | upper
-std::vector<std::string> indexFormats();
-}  // namespace spec
 
 }  // namespace lintel::addin

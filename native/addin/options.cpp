@@ -1,9 +1,8 @@
 #include "options.hpp"
 
 #include <algorithm>
-#include <cctype>
-#include <cmath>
-#include <cstdlib>
+#include <stdexcept>
+#include <vector>
 
 #include <fmt/format.h>
 
@@ -12,25 +11,16 @@
 
 namespace lintel::addin {
 
-namespace {
-
-std::optional<double> toNumber(const Cell& c) {
-    if (c.isNumber()) return c.number;
-    if (!c.isText()) return std::nullopt;
-    std::string t = trim(c.text);
-    // A decimal comma, as Calc writes numbers into text ("level="&B9) in many languages.
-    if (std::count(t.begin(), t.end(), ',') == 1 && t.find('.') == std::string::npos)
-        std::replace(t.begin(), t.end(), ',', '.');
-    char* end = nullptr;
-    const double x = std::strtod(t.c_str(), &end);
-    if (t.empty() || *end) return std::nullopt;
-    return x;
+std::string shortText(const std::string& s, std::size_t max) {
+    if (s.size() <= max) return s;
+    std::size_t cut = max;
+    while (cut > 0 && (static_cast<unsigned char>(s[cut]) & 0xC0) == 0x80) --cut;  // UTF-8
+    return s.substr(0, cut) + "...";
 }
-
-}  // namespace
 
 OptionBag OptionBag::parse(const Arg& arg, const FunctionSpec& spec) {
     OptionBag bag;
+    bag.spec_ = &spec;
     if (!arg) return bag;
     std::vector<std::pair<std::string, Cell>> pairs;
     const Range& r = *arg;
@@ -39,7 +29,7 @@ OptionBag OptionBag::parse(const Arg& arg, const FunctionSpec& spec) {
         if (c.isEmpty()) return bag;
         if (!c.isText())
             throw InputError("options must be text \"key=value; key=value\" or a two-column range");
-        std::string text = c.text;
+        const std::string& text = c.text;
         std::size_t pos = 0;
         while (pos <= text.size()) {
             std::size_t end = text.find_first_of(";\n", pos);
@@ -49,7 +39,8 @@ OptionBag OptionBag::parse(const Arg& arg, const FunctionSpec& spec) {
             if (item.empty()) continue;
             const auto eq = item.find('=');
             if (eq == std::string::npos)
-                throw InputError(fmt::format("option \"{}\" has no value (write key=value)", item));
+                throw InputError(fmt::format("option \"{}\" has no value (write key=value)",
+                                             shortText(item)));
             pairs.emplace_back(trim(item.substr(0, eq)), Cell::str(trim(item.substr(eq + 1))));
         }
     } else if (r.cols == 2) {
@@ -67,12 +58,10 @@ OptionBag OptionBag::parse(const Arg& arg, const FunctionSpec& spec) {
     }
     for (auto& [key, value] : pairs) {
         const std::string k = lower(key);
-        const bool known = std::any_of(spec.options.begin(), spec.options.end(),
-                                       [&](const OptionSpec& o) { return o.key == k; });
-        if (!known) {
+        if (!spec.option(k)) {
             std::string list;
             for (const auto& o : spec.options) list += (list.empty() ? "" : ", ") + o.key;
-            throw InputError(fmt::format("unknown option \"{}\" for {} (known: {})", key,
+            throw InputError(fmt::format("unknown option \"{}\" for {} (known: {})", shortText(key),
                                          spec.name, list.empty() ? "none" : list));
         }
         if (bag.values_.count(k))
@@ -82,77 +71,12 @@ OptionBag OptionBag::parse(const Arg& arg, const FunctionSpec& spec) {
     return bag;
 }
 
-double OptionBag::number(const std::string& key, double fallback) const {
-    auto it = values_.find(key);
-    if (it == values_.end() || it->second.isEmpty()) return fallback;
-    const auto x = toNumber(it->second);
-    if (!x || !std::isfinite(*x))
-        throw InputError(fmt::format("option {} must be a number, got \"{}\"", key, it->second.text));
-    return *x;
-}
-
-long OptionBag::integer(const std::string& key, long fallback, long minimum) const {
-    const double x = number(key, static_cast<double>(fallback));
-    if (x > 9e18)  // beyond long: keeps the conversion below defined
-        throw InputError(fmt::format("option {} is too large: {}", key, x));
-    if (x != std::floor(x) || x < static_cast<double>(minimum))
-        throw InputError(fmt::format("option {} must be a whole number of at least {}, got {}",
-                                     key, minimum, x));
-    return static_cast<long>(x);
-}
-
-bool OptionBag::flag(const std::string& key, bool fallback) const {
-    auto it = values_.find(key);
-    if (it == values_.end() || it->second.isEmpty()) return fallback;
-    const Cell& c = it->second;
-    if (c.isNumber()) return c.number != 0;
-    const std::string t = lower(trim(c.text));
-    if (t == "1" || t == "true" || t == "yes" || t == "on") return true;
-    if (t == "0" || t == "false" || t == "no" || t == "off") return false;
-    throw InputError(fmt::format("option {} must be 1 or 0 (TRUE or FALSE), got \"{}\"", key, c.text));
-}
-
-std::string OptionBag::text(const std::string& key, const std::string& fallback) const {
-    auto it = values_.find(key);
-    if (it == values_.end() || it->second.isEmpty()) return fallback;
-    if (it->second.isNumber()) return fmt::format("{}", it->second.number);
-    return trim(it->second.text);
-}
-
-std::string OptionBag::choice(const std::string& key, const std::string& fallback,
-                              const std::vector<std::string>& allowed) const {
-    const std::string v = lower(text(key, fallback));
-    if (std::find(allowed.begin(), allowed.end(), v) != allowed.end()) return v;
-    std::string list;
-    for (const auto& a : allowed) list += (list.empty() ? "" : ", ") + a;
-    throw InputError(fmt::format("option {} must be one of {}, got \"{}\"", key, list, v));
-}
-
-std::vector<long> OptionBag::integerList(const std::string& key) const {
-    std::vector<long> out;
-    auto it = values_.find(key);
-    if (it == values_.end() || it->second.isEmpty()) return out;
-    if (it->second.isNumber()) {
-        out.push_back(integer(key, 0, 1));
-        return out;
-    }
-    std::string t = it->second.text;
-    std::replace_if(t.begin(), t.end(), [](char c) { return c == ',' || c == ' '; }, ';');
-    std::size_t pos = 0;
-    while (pos <= t.size()) {
-        std::size_t end = t.find(';', pos);
-        if (end == std::string::npos) end = t.size();
-        const std::string item = trim(t.substr(pos, end - pos));
-        pos = end + 1;
-        if (item.empty()) continue;
-        char* e = nullptr;
-        const long v = std::strtol(item.c_str(), &e, 10);
-        if (*e || v < 1)
-            throw InputError(fmt::format("option {} must list column numbers like \"1,3\", got \"{}\"",
-                                         key, it->second.text));
-        out.push_back(v);
-    }
-    return out;
+const Cell* OptionBag::find(const std::string& key) const {
+    if (!spec_ || !spec_->option(key))
+        throw std::logic_error(fmt::format("option key \"{}\" is not declared in the spec of {}",
+                                           key, spec_ ? spec_->name : std::string("?")));
+    const auto it = values_.find(key);
+    return it == values_.end() || it->second.isEmpty() ? nullptr : &it->second;
 }
 
 }  // namespace lintel::addin

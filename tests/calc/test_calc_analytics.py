@@ -256,7 +256,7 @@ class MixTest(unittest.TestCase, Sheet):
         cases = {
             f"=INDEXMIX(A2:A{n};B2:B{n};C2:D10)": f"Lintel: dates has {n - 1} rows, strata has 9",
             f'=INDEXMIX(A2:A{n};B2:B{n};C2:C{n};;;;"weights=price")':
-                'Lintel: option weights must be one of sales, value, all, got "price"',
+                'Lintel: option weights must be "sales", "value" or "all", got "price"',
             f'=INDEXMIX(A2:A{n};B2:B{n};C2:C{n};;;;"bands=bootstrap; reps=5")':
                 "Lintel: reps must lie between 20 and 10000, got 5",
             f'=INDEXMIX(A2:A{n};B2:B{n};C2:C{n};;;DATE(2030;1;1))': "Lintel: base 2030-01-01 lies outside the data",
@@ -460,9 +460,9 @@ class SeriesTest(unittest.TestCase, Sheet):
     def test_bad_input(self):
         cases = {
             "=INDEXVOLATILITY(B2:B3)": "Lintel: volatility needs at least 2 changes over 1 period(s); the index gives 1",
-            "=INDEXVOLATILITY(B2:B121;0)": "Lintel: lag must be 1 or more, got 0",
+            "=INDEXVOLATILITY(B2:B121;0)": "Lintel: lag must be a whole number of at least 1, got 0",
             "=INDEXVOLATILITY(B2:C121)": "Lintel: index must be one column, got 2 columns",
-            "=INDEXTREND(B2:B121;;0)": "Lintel: lambda must be a positive number, got 0",
+            "=INDEXTREND(B2:B121;;0)": "Lintel: lambda must be greater than 0, got 0",
             "=INDEXTREND(B2:B3)": "Lintel: the trend needs at least 3 values, the index has 2",
             '=INDEXSNR(B2:B121;"W")': 'Lintel: freq must be "M", "Q" or "Y", got "W"',
             '=INDEXSNR(B2:B121;;"lambda=abc")': 'Lintel: option lambda must be a number, got "abc"',

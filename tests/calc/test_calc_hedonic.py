@@ -310,9 +310,9 @@ class HedonicCalcTest(SheetCalls, unittest.TestCase):
         typical = self.ref.typical_home()
         home = {r[0]: r[1:] for r in cells[13:17]}
         self.assertCell(home["home: size"][0], typical["size"], "pandas median of January's size")
-        self.assertEqual(home["home: size"][1], "typical")
-        self.assertEqual(home["home: bedrooms"][:2], [f"{typical['bedrooms']:g}", "typical"])
-        self.assertEqual(home["home: district"][:2], [typical["district"], "typical"])
+        self.assertEqual(home["home: size"][1], "base-period median home")
+        self.assertEqual(home["home: bedrooms"][:2], [f"{typical['bedrooms']:g}", "base-period median home"])
+        self.assertEqual(home["home: district"][:2], [typical["district"], "base-period median home"])
         self.assertCell(home["home: age"][0], typical["age"], "pandas median of January's age")
         self.assertEqual(cells[17][0], "retransformation factor")
         self.assertCell(cells[17][1], factor, "Duan smearing: mean(exp(statsmodels resid))")
@@ -339,7 +339,7 @@ class HedonicCalcTest(SheetCalls, unittest.TestCase):
         self.assertEqual([a.Name for a in args],
                          ["dates", "prices", "characteristics", "home", "include", "freq", "base", "options"])
         self.assertEqual([bool(a.IsOptional) for a in args], [False] * 3 + [True] * 5)
-        self.assertIn("typical home", args[3].Description)
+        self.assertIn("base period's median home", args[3].Description)
         for name in ("INDEXHEDONIC", "HEDONICCOEFS"):
             self.assertEqual([a.Name for a in shown[name]["Arguments"]],
                              ["dates", "prices", "characteristics", "include", "freq", "base", "options"])

@@ -416,7 +416,7 @@ class RepeatSalesCalcTest(unittest.TestCase):
         msg = self.formula("BH4", f'=RSPAIRS({self.ranges};;"colour=red")')
         self.assertTrue(msg.startswith('Lintel: unknown option "colour" for RSPAIRS (known: method,'), msg)
         msg = self.formula("BH5", f'=CHAINRS({self.ranges};;;;"chain=2")')
-        self.assertEqual(msg, "Lintel: chain must be 0 or 1, got 2")
+        self.assertEqual(msg, 'Lintel: option chain must be 1 or 0 (TRUE or FALSE), got "2"')
         # The base in a month no pair reaches: CHAINRS says why ...
         msg = self.formula("BH6", f"=CHAINRS({self.ranges};;;DATE(2019;7;15))")
         self.assertEqual(msg, "Lintel: the base period 2019-07 has no value: no usable pair has a sale in it")

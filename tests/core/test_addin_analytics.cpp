@@ -183,7 +183,7 @@ BOOST_AUTO_TEST_CASE(mix_bad_input) {
     BOOST_TEST(messageOf(callOmitting("INDEXMIX", args)) == "Lintel: reps must lie between 20 and 10000, got 5");
     args[6] = text("weights=price");
     BOOST_TEST(messageOf(callOmitting("INDEXMIX", args)) ==
-               "Lintel: option weights must be one of sales, value, all, got \"price\"");
+               "Lintel: option weights must be \"sales\", \"value\" or \"all\", got \"price\"");
     args[6] = text("minsales=3");
     BOOST_TEST(messageOf(callOmitting("INDEXMIX", args)) == "Lintel: no period has a value (minsales 3)");
     args[6] = text("seed=-1");
@@ -218,9 +218,9 @@ BOOST_AUTO_TEST_CASE(volatility_scalar_notes_and_lag) {
                boost::test_tools::tolerance(1e-12));
 
     BOOST_TEST(messageOf(callOmitting("INDEXVOLATILITY", {numbers(v), number(1.5), {}})) ==
-               "Lintel: lag must be a whole number, got 1.5");
+               "Lintel: lag must be a whole number of at least 1, got 1.5");
     BOOST_TEST(messageOf(callOmitting("INDEXVOLATILITY", {numbers(v), number(0), {}})) ==
-               "Lintel: lag must be 1 or more, got 0");
+               "Lintel: lag must be a whole number of at least 1, got 0");
     BOOST_TEST(messageOf(callOmitting("INDEXVOLATILITY", {numbers(v), {}, text("freq=W")})) ==
                "Lintel: option freq must be \"M\", \"Q\" or \"Y\", got \"W\"");
     BOOST_TEST(messageOf(callOmitting("INDEXVOLATILITY", {numbers({100, 110}), {}, {}})) ==
@@ -241,7 +241,7 @@ BOOST_AUTO_TEST_CASE(trend_line_gap_and_ends) {
     const OutTable u = callOmitting("INDEXTREND", {column({Cell::num(2), Cell::str("n/a"), Cell::num(6), Cell::num(8)}), {}, number(50)});
     BOOST_TEST(u.rows[1][0].number == 4.0, boost::test_tools::tolerance(1e-9));
     BOOST_TEST(messageOf(callOmitting("INDEXTREND", {numbers({1, 2, 3}), {}, number(0)})) ==
-               "Lintel: lambda must be a positive number, got 0");
+               "Lintel: lambda must be greater than 0, got 0");
     BOOST_TEST(messageOf(callOmitting("INDEXTREND", {numbers({1, 2, 3}), {}, text("smooth")})) ==
                "Lintel: lambda must be a number, got \"smooth\"");
     BOOST_TEST(messageOf(callOmitting("INDEXTREND", {numbers({1, NAN, 3}), {}, {}})) ==
@@ -287,9 +287,9 @@ BOOST_AUTO_TEST_CASE(snr_output_detail_and_no_noise) {
     t = callOmitting("INDEXSNR", {numbers(v), {}, {}});
     BOOST_TEST(t.rows[0][0].number > 0.0);
     BOOST_TEST(messageOf(callOmitting("INDEXSNR", {numbers(v), {}, text("lambda=-1")})) ==
-               "Lintel: lambda must be a positive number, got -1");
+               "Lintel: option lambda must be greater than 0, got -1");
     BOOST_TEST(messageOf(callOmitting("INDEXSNR", {numbers(v), {}, text("output=chart")})) ==
-               "Lintel: option output must be one of ratio, detail, got \"chart\"");
+               "Lintel: option output must be \"ratio\" or \"detail\", got \"chart\"");
     BOOST_TEST(messageOf(callOmitting("INDEXSNR", {numbers({100, NAN, 101, NAN, 102}), {}, {}})) ==
                "Lintel: the signal-to-noise ratio needs at least 2 pairs of consecutive values; the index has 0");
 }
@@ -323,7 +323,7 @@ BOOST_AUTO_TEST_CASE(leadlag_sign_layout_and_errors) {
     BOOST_TEST(messageOf(callOmitting("INDEXLEADLAG", {numbers(a), numbers(b), number(14), text("lag=1")})) ==
                "Lintel: maxlag must be smaller than the number of rows (14), got 14");
     BOOST_TEST(messageOf(callOmitting("INDEXLEADLAG", {numbers(a), numbers(b), number(-1), {}})) ==
-               "Lintel: maxlag must be 0 or more, got -1");
+               "Lintel: maxlag must be a whole number of at least 0, got -1");
     BOOST_TEST(messageOf(callOmitting("INDEXLEADLAG", {numbers(a), numbers(b), {}, text("minpairs=2")})) ==
                "Lintel: option minpairs must be a whole number of at least 3, got 2");
     BOOST_TEST(messageOf(callOmitting("INDEXLEADLAG", {numbers(a), numbers(b), number(1), text("lag=12")})) ==
@@ -412,7 +412,7 @@ BOOST_AUTO_TEST_CASE(seasonal_outputs_and_errors) {
     BOOST_TEST(messageOf(callOmitting("INDEXSEASONAL", {numbers(x), {}, {}})) ==
                "Lintel: seasonal factors need at least 2 years of rows (24), the index has 16");
     BOOST_TEST(messageOf(callOmitting("INDEXSEASONAL", {numbers(x), text("Q"), text("output=trend")})) ==
-               "Lintel: option output must be one of factors, adjusted, table, got \"trend\"");
+               "Lintel: option output must be \"factors\", \"adjusted\" or \"table\", got \"trend\"");
 }
 
 // Column 1 alternates x1.1, x0.9 (largest change 10 %); column 2 = column 1 shifted one
@@ -454,7 +454,7 @@ BOOST_AUTO_TEST_CASE(compare_layout_names_and_errors) {
     BOOST_TEST(messageOf(callOmitting("INDEXCOMPARE", {block({nums(a), nums(c)}), {}, text("lag=0")})) ==
                "Lintel: option lag must be a whole number of at least 1, got 0");
     BOOST_TEST(messageOf(callOmitting("INDEXCOMPARE", {block({nums(a), nums(c)}), {}, text("lambda=-1")})) ==
-               "Lintel: lambda must be a positive number, got -1");
+               "Lintel: option lambda must be greater than 0, got -1");
     BOOST_TEST(messageOf(callOmitting("INDEXCOMPARE", {block({nums({1}), nums({2})}), {}, text("header=1")})) ==
                "Lintel: indexes holds no rows below the header");
     BOOST_TEST(messageOf(callOmitting("INDEXCOMPARE", {block({nums(a), nums(c)}), {}, text("colour=red")})) ==

@@ -157,7 +157,7 @@ BOOST_AUTO_TEST_CASE(table_entries_have_the_fixed_names_and_argument_orders) {
     BOOST_TEST(names("REFHOMEVALUE") == home);
     const FunctionSpec& r = *findFunctionByName("REFHOMEVALUE");
     BOOST_TEST((r.args[3].kind == ArgKind::Optional));  // can be left empty
-    BOOST_TEST(r.args[3].description.find("typical home") != std::string::npos);
+    BOOST_TEST(r.args[3].description.find("base period's median home") != std::string::npos);
     BOOST_TEST((r.args[2].kind == ArgKind::Range));
     BOOST_TEST(findFunctionByMethod("indexHedonic")->name == "INDEXHEDONIC");
     BOOST_TEST(findFunctionByMethod("hedonicCoefs")->name == "HEDONICCOEFS");
@@ -281,7 +281,7 @@ BOOST_AUTO_TEST_CASE(reference_home_given_typical_and_header_row) {
     a[3].reset();
     t = call("REFHOMEVALUE", a);
     for (const char* c : {"home: x1", "home: x2", "home: x3", "home: x4"})
-        BOOST_TEST((*rowOf(t, c))[2].text == "typical");
+        BOOST_TEST((*rowOf(t, c))[2].text == "base-period median home");
     // Typical = the base period's (January's) median size and age, most frequent levels.
     std::vector<double> jan(s.size.begin(), s.size.begin() + 8);
     std::sort(jan.begin(), jan.end());
@@ -289,9 +289,9 @@ BOOST_AUTO_TEST_CASE(reference_home_given_typical_and_header_row) {
     a[3] = grid(1, 4, {Cell::num(100), Cell(), Cell::num(3), Cell::num(10)});
     t = call("REFHOMEVALUE", a);
     BOOST_TEST(((*rowOf(t, "home: x1"))[2].kind == OutCell::Kind::NoValue));
-    BOOST_TEST((*rowOf(t, "home: x2"))[2].text == "typical");
+    BOOST_TEST((*rowOf(t, "home: x2"))[2].text == "base-period median home");
     a[3] = grid(1, 1, {Cell()});  // a single blank cell is the typical home too
-    BOOST_TEST((*rowOf(call("REFHOMEVALUE", a), "home: x3"))[2].text == "typical");
+    BOOST_TEST((*rowOf(call("REFHOMEVALUE", a), "home: x3"))[2].text == "base-period median home");
 
     // header=1: the home may carry its header row.
     const Sheet hs = sheet(s, true);
@@ -370,9 +370,9 @@ BOOST_AUTO_TEST_CASE(option_and_argument_errors) {
          "se, bias, minsales, level, header, titles, notes)"},
         {"window=1", "Lintel: window must be 0 (pooled) or at least 2 periods, got 1"},
         {"window=-2", "Lintel: option window must be a whole number of at least 0, got -2"},
-        {"window=1e9", "Lintel: option window must be 0 or a number of periods up to 1000000, got 1000000000"},
-        {"se=hc3", "Lintel: option se must be one of classical, hc1, got \"hc3\""},
-        {"bias=yes", "Lintel: option bias must be one of none, kennedy, got \"yes\""},
+        {"window=1e9", "Lintel: option window must be a whole number from 0 to 1000000, got 1000000000"},
+        {"se=hc3", "Lintel: option se must be \"classical\" or \"hc1\", got \"hc3\""},
+        {"bias=yes", "Lintel: option bias must be \"none\" or \"kennedy\", got \"yes\""},
         {"log=2", "Lintel: log: column 2 (x2) holds text, not numbers"},
         {"log=5", "Lintel: log: column 5 lies outside the characteristics (1..4)"},
         {"log=1,3; categorical=3", "Lintel: column 3 cannot be both log and categorical"},

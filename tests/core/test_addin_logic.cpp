@@ -7,7 +7,11 @@
 #include "diagnostics.hpp"
 #include "function_table.hpp"
 #include "inputs.hpp"
+#include "call.hpp"
 #include "options.hpp"
+#include "raw_index.hpp"
+
+#include <functional>
 
 using namespace lintel;
 using namespace lintel::addin;
@@ -18,43 +22,103 @@ namespace {
 
 BOOST_AUTO_TEST_SUITE(addin_logic)
 
+namespace {
+// The options an INDEXMEAN call with this options argument gets.
+RawIndexOptions meanOptions(const Arg& options) {
+    std::vector<Arg> args(6);
+    args[5] = options;
+    return Call(*findFunctionByName("INDEXMEAN"), args, {}).options<RawIndexOptions>();
+}
+TableLayout meanLayout(const Arg& options) {
+    std::vector<Arg> args(6);
+    args[5] = options;
+    return Call(*findFunctionByName("INDEXMEAN"), args, {}).layout();
+}
+std::string errorOf(const std::function<void()>& f) {
+    try {
+        f();
+    } catch (const InputError& e) {
+        return e.what();
+    }
+    return "(no error)";
+}
+}  // namespace
+
 BOOST_AUTO_TEST_CASE(options_text_and_range) {
-    const FunctionSpec& spec = *findFunctionByName("INDEXMEAN");
-    const OptionBag a = OptionBag::parse(text(" MinSales = 5 ; trim=0.1;titles=TRUE "), spec);
-    BOOST_TEST(a.integer("minsales", 1, 1) == 5);
-    BOOST_TEST(a.number("trim", 0) == 0.1);
-    BOOST_TEST(a.flag("titles", false));
-    BOOST_TEST(a.number("level", 0.95) == 0.95);
+    const RawIndexOptions a = meanOptions(text(" MinSales = 5 ; trim=0.1;titles=TRUE "));
+    BOOST_TEST(a.minSales == 5u);
+    BOOST_TEST(a.trim == 0.1);
+    BOOST_TEST(a.level == 0.95);  // the core's default
+    BOOST_TEST(meanLayout(text(" MinSales = 5 ; trim=0.1;titles=TRUE ")).titles);
 
     Range r;
     r.rows = 2;
     r.cols = 2;
     r.cells = {Cell::str("level"), Cell::num(0.9), Cell::str("notes"), Cell::num(1)};
-    const OptionBag b = OptionBag::parse(Arg(r), spec);
-    BOOST_TEST(b.number("level", 0.95) == 0.9);
-    BOOST_TEST(b.flag("notes", false));
+    BOOST_TEST(meanOptions(Arg(r)).level == 0.9);
+    BOOST_TEST(meanLayout(Arg(r)).notes);
 }
 
 BOOST_AUTO_TEST_CASE(decimal_comma_in_option_numbers) {
     // "level="&B9 gives "level=0,9" in a German or French Calc.
-    const FunctionSpec& spec = *findFunctionByName("INDEXMEAN");
-    BOOST_TEST(OptionBag::parse(text("level=0,9; trim=0.1"), spec).number("level", 0.95) == 0.9);
-    BOOST_TEST(OptionBag::parse(text("trim=0.1"), spec).number("trim", 0) == 0.1);
+    BOOST_TEST(meanOptions(text("level=0,9; trim=0.1")).level == 0.9);
+    BOOST_TEST(meanOptions(text("trim=0.1")).trim == 0.1);
+}
+
+BOOST_AUTO_TEST_CASE(ambiguous_or_foreign_numbers_are_refused) {
+    // Issue 10: minsales=1,000 was read as 1, minsales=0x10 as 16, lambda=129,600 as 129.6.
+    BOOST_TEST(errorOf([] { meanOptions(text("minsales=1,000")); }) ==
+               "option minsales: \"1,000\" is ambiguous (a thousands separator or a decimal "
+               "comma?); write it without a separator, e.g. 1000");
+    BOOST_TEST(errorOf([] { meanOptions(text("minsales=0x10")); }) ==
+               "option minsales must be a number, got \"0x10\"");
+    BOOST_TEST(errorOf([] { meanOptions(text("level=inf")); }) ==
+               "option level must be a number, got \"inf\"");
+    BOOST_TEST(errorOf([] { meanOptions(text("minsales=12abc")); }) ==
+               "option minsales must be a number, got \"12abc\"");
+    std::vector<Arg> args(3);
+    args[0] = column({Cell::num(100), Cell::num(101), Cell::num(102)});
+    args[2] = text("129,600");
+    BOOST_TEST(messageOf(callFunction(*findFunctionByName("INDEXTREND"), args, {})) ==
+               "Lintel: lambda: \"129,600\" is ambiguous (a thousands separator or a decimal "
+               "comma?); write it without a separator, e.g. 129600");
+    BOOST_TEST(meanOptions(text("trim=0,25")).trim == 0.25);  // not three digits: a decimal comma
+    BOOST_TEST(meanOptions(text("minsales=1e3")).minSales == 1000u);
+}
+
+BOOST_AUTO_TEST_CASE(option_keys_with_no_break_spaces) {
+    // A key typed or pasted with U+00A0 around it (issue 10).
+    BOOST_TEST(meanOptions(text("\xC2\xA0minsales\xC2\xA0=3")).minSales == 3u);
 }
 
 BOOST_AUTO_TEST_CASE(option_errors_name_the_key) {
-    const FunctionSpec& spec = *findFunctionByName("INDEXMEDIAN");
-    try {
-        OptionBag::parse(text("minsales=3; colour=red"), spec);
-        BOOST_FAIL("unknown key accepted");
-    } catch (const InputError& e) {
-        BOOST_TEST(std::string(e.what()) ==
-                   "unknown option \"colour\" for INDEXMEDIAN (known: minsales, level, header, titles, notes)");
-    }
-    BOOST_CHECK_THROW(OptionBag::parse(text("minsales"), spec), InputError);
-    BOOST_CHECK_THROW(OptionBag::parse(text("level=1;level=2"), spec), InputError);
-    BOOST_CHECK_THROW(OptionBag::parse(text("minsales=2.5"), spec).integer("minsales", 1, 1), InputError);
-    BOOST_CHECK_THROW(OptionBag::parse(text("titles=maybe"), spec).flag("titles", false), InputError);
+    BOOST_TEST(errorOf([] {
+                   std::vector<Arg> args(6);
+                   args[5] = text("minsales=3; colour=red");
+                   Call(*findFunctionByName("INDEXMEDIAN"), args, {});
+               }) ==
+               "unknown option \"colour\" for INDEXMEDIAN (known: minsales, level, header, titles, notes)");
+    BOOST_TEST(errorOf([] { meanOptions(text("minsales")); }) ==
+               "option \"minsales\" has no value (write key=value)");
+    BOOST_TEST(errorOf([] { meanOptions(text("level=1;level=2")); }) == "option \"level\" is given twice");
+    BOOST_TEST(errorOf([] { meanOptions(text("minsales=2.5")); }) ==
+               "option minsales must be a whole number of at least 1, got 2.5");
+    BOOST_TEST(errorOf([] { meanOptions(text("titles=maybe")); }) ==
+               "option titles must be 1 or 0 (TRUE or FALSE), got \"maybe\"");
+    BOOST_TEST(errorOf([] { meanOptions(text("level=1.5")); }) ==
+               "option level must lie between 0 and 1, got 1.5");
+}
+
+BOOST_AUTO_TEST_CASE(long_option_text_is_not_echoed_whole) {
+    // A 10 KB options text (issue 10) gives a short message, not 10 KB in every cell.
+    const std::string junk(10000, 'x');
+    std::vector<Arg> args(6);
+    args[0] = column({Cell::num(45000)});
+    args[1] = column({Cell::num(1)});
+    args[5] = text(junk + "=1");
+    const std::string m = messageOf(callFunction(*findFunctionByName("INDEXMEDIAN"), args, {}));
+    BOOST_TEST(m.size() < 200u);
+    BOOST_TEST(m.find("unknown option \"xxxx") != std::string::npos);
 }
 
 BOOST_AUTO_TEST_CASE(mismatched_ranges_message) {

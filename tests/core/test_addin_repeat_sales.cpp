@@ -356,11 +356,11 @@ BOOST_AUTO_TEST_CASE(rspairs_freq_and_base_options) {
     BOOST_TEST(txt(yy.rows[0][8]) == "both sales in one period");
     const OutTable ym = call("RSPAIRS", pairArgs(y, "freq=M; minhold=0"));
     BOOST_TEST(num(ym.rows[0][7]) == 1.0);
-    // Bad values read as CHAINRS's arguments would.
+    // Bad values read by the same readers as CHAINRS's arguments.
     BOOST_TEST(messageOf(call("RSPAIRS", pairArgs(s, "freq=W"))) ==
-               "Lintel: freq must be \"M\", \"Q\" or \"Y\", got \"W\"");
+               "Lintel: option freq must be \"M\", \"Q\" or \"Y\", got \"W\"");
     BOOST_TEST(messageOf(call("RSPAIRS", pairArgs(s, "base=soon"))) ==
-               "Lintel: base must be a date, got \"soon\"");
+               "Lintel: option base must be a date, got \"soon\"");
     // base and freq are arguments of CHAINRS, not options.
     BOOST_TEST(messageOf(call("CHAINRS", chainArgs(s, "freq=Y"))).find("unknown option \"freq\" for CHAINRS") !=
                std::string::npos);
@@ -427,14 +427,14 @@ BOOST_AUTO_TEST_CASE(bad_input_messages) {
                "Lintel: unknown option \"colour\" for CHAINRS (known: method, minhold, maxrate, "
                "chain, init, minsales, level, header, titles, notes)");
     BOOST_TEST(messageOf(call("RSPAIRS", pairArgs(s, "method=ols"))) ==
-               "Lintel: option method must be one of cs, bmn, cs2, got \"ols\"");
-    BOOST_TEST(messageOf(call("CHAINRS", chainArgs(s, "chain=2"))) == "Lintel: chain must be 0 or 1, got 2");
+               "Lintel: option method must be \"cs\", \"bmn\" or \"cs2\", got \"ols\"");
+    BOOST_TEST(messageOf(call("CHAINRS", chainArgs(s, "chain=2"))) == "Lintel: option chain must be 1 or 0 (TRUE or FALSE), got \"2\"");
     BOOST_TEST(messageOf(call("CHAINRS", chainArgs(s, "chain=1e12"))) ==
-               "Lintel: chain must be 0 or 1, got 1000000000000");
+               "Lintel: option chain must be 1 or 0 (TRUE or FALSE), got \"1e12\"");
     BOOST_TEST(messageOf(call("CHAINRS", chainArgs(s, "minhold=-1"))) ==
-               "Lintel: minhold must be 0 or more months, got -1");
+               "Lintel: option minhold must be 0 or more, got -1");
     BOOST_TEST(messageOf(call("RSPAIRS", pairArgs(s, "maxrate=-2"))) ==
-               "Lintel: maxrate must be 0 (off) or positive, got -2");
+               "Lintel: option maxrate must be 0 or more, got -2");
     BOOST_TEST(messageOf(call("CHAINRS", chainArgs(s, "init=-1"))) ==
                "Lintel: option init must be a whole number of at least 0, got -1");
     BOOST_TEST(messageOf(call("CHAINRS", chainArgs(s, "", false, "W"))) ==

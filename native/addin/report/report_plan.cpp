@@ -7,6 +7,7 @@
 #include <fmt/format.h>
 
 #include "diagnostics.hpp"
+#include "function_table.hpp"
 #include "inputs.hpp"
 #include "periods.hpp"
 
@@ -36,6 +37,25 @@ std::string cellRef(int row, int col) { return fmt::format("${}${}", columnName(
 
 std::string localRange(int row0, int col0, int row1, int col1) {
     return fmt::format("{}:{}", cellRef(row0, col0), cellRef(row1, col1));
+}
+
+// "Index" for "index": a column title as a heading.
+std::string capitalised(std::string s) {
+    if (!s.empty()) s[0] = static_cast<char>(std::toupper(static_cast<unsigned char>(s[0])));
+    return s;
+}
+
+// The function a report method's table calls.
+const char* methodFunction(Method m) {
+    switch (m) {
+        case Method::Median: return "INDEXMEDIAN";
+        case Method::Mean: return "INDEXMEAN";
+        case Method::Mix: return "INDEXMIX";
+        case Method::Hedonic: return "INDEXHEDONIC";
+        case Method::RepeatSales: return "CHAINRS";
+        case Method::ReferenceHome: return "REFHOMEVALUE";
+    }
+    return "";
 }
 
 std::string formulaText(const std::string& s) {  // a Calc string literal
@@ -227,7 +247,14 @@ ReportPlan Planner::run() {
         if (m != Method::ReferenceHome) indexMethods.push_back(m);
 
     const int M = static_cast<int>(methods.size());
-    const int blockCol = 6 * M;  // chart data block after the method tables
+    // Method tables side by side, each its function's width plus a blank column; the chart
+    // data block after them.
+    std::vector<int> tableCol(M);
+    int blockCol = 0;
+    for (int i = 0; i < M; ++i) {
+        tableCol[i] = blockCol;
+        blockCol += static_cast<int>(addin::functionSpec(methodFunction(methods[i])).width()) + 1;
+    }
     const int K = static_cast<int>(indexMethods.size());
     helperCol_ = blockCol + 4 * (K + 1) + 8;
 
@@ -274,40 +301,33 @@ ReportPlan Planner::run() {
     const int first = Layout::kTableFirstRow;
     const int last = first + T - 1;
     text(Layout::kTableTitleRow - 1, 0, "Index tables (array formulas; base period = 100)", true);
-    std::vector<int> tableCol(M);
     for (int i = 0; i < M; ++i) {
         const Method m = methods[i];
-        const int c = 6 * i;
-        tableCol[i] = c;
+        const int c = tableCol[i];
         std::string opts = "\"level=\"&" + cellRef(rowLevel, 1);
         auto adv = s_.advanced.find(methodKey(m));
         if (adv != s_.advanced.end() && !adv->second.empty())
             opts += "&" + formulaText("; " + adv->second);
-        std::string call;
-        switch (m) {
-            case Method::Median: call = fmt::format("INDEXMEDIAN({};{};{};{};{};{})", dates, prices, include, freqRef, baseRef, opts); break;
-            case Method::Mean: call = fmt::format("INDEXMEAN({};{};{};{};{};{})", dates, prices, include, freqRef, baseRef, opts); break;
-            case Method::Mix: call = fmt::format("INDEXMIX({};{};{};{};{};{};{})", dates, prices, strataBlock, include, freqRef, baseRef, opts); break;
-            case Method::Hedonic: call = fmt::format("INDEXHEDONIC({};{};{};{};{};{};{})", dates, prices, charsBlock, include, freqRef, baseRef, opts); break;
-            case Method::RepeatSales: call = fmt::format("CHAINRS({};{};{};{};{};{};{};{})", idRange, dates, prices, changedRange, include, freqRef, baseRef, opts); break;
-            case Method::ReferenceHome: call = fmt::format("REFHOMEVALUE({};{};{};;{};{};{};{})", dates, prices, charsBlock, include, freqRef, baseRef, opts); break;
+        const addin::FunctionSpec& fn = addin::functionSpec(methodFunction(m));
+        std::vector<std::pair<std::string, std::string>> named = {
+            {"dates", dates}, {"prices", prices}, {"include", include},
+            {"freq", freqRef}, {"base", baseRef}, {"options", opts}};
+        if (m == Method::Mix) named.emplace_back("strata", strataBlock);
+        if (m == Method::Hedonic || m == Method::ReferenceHome) named.emplace_back("characteristics", charsBlock);
+        if (m == Method::RepeatSales) {
+            named.emplace_back("ids", idRange);
+            named.emplace_back("changed", changedRange);
         }
+        const std::string call = addin::formulaCall(fn, named);
         text(Layout::kTableTitleRow, c, methodLabel(m), true);
         const bool home = m == Method::ReferenceHome;
-        const std::vector<std::string> heads =
-            home ? std::vector<std::string>{"Period", "Value", "Lower", "Upper"}
-                 : std::vector<std::string>{"Period", "Index", m == Method::RepeatSales ? "Pairs" : "Sales", "Lower", "Upper"};
-        for (std::size_t h = 0; h < heads.size(); ++h) text(Layout::kTableHeadRow, c + static_cast<int>(h), heads[h], true);
-        const int width = static_cast<int>(heads.size());
-        array(first, c, T, width, "=" + call);
-        format(first, c, T, 1, "YYYY-MM");
-        if (home) {
-            format(first, c + 1, T, 3, "#,##0");
-        } else {
-            format(first, c + 1, T, 1, "0.0");
-            format(first, c + 2, T, 1, "0");
-            format(first, c + 3, T, 2, "0.0");
+        const int width = static_cast<int>(fn.width());
+        for (int h = 0; h < width; ++h) {
+            text(Layout::kTableHeadRow, c + h, capitalised(fn.columns[static_cast<std::size_t>(h)].title), true);
+            const std::string& f = fn.columns[static_cast<std::size_t>(h)].format;
+            format(first, c + h, T, 1, h == 0 ? "YYYY-MM" : f);
         }
+        array(first, c, T, width, "=" + call);
         if (i == 0 && !home)
             formula(sr + 7, 1, fmt::format("=SUM({})", localRange(first, c + 2, last, c + 2)), "0");
     }
@@ -339,8 +359,11 @@ ReportPlan Planner::run() {
                                 cellRef(first + t, bc), periodsCol));
         format(first, lc, T, 1, "0.0");
         const std::string levels = localRange(first, lc, last, lc);
-        array(first, blocks[1].col + 1 + k, T, 1, fmt::format("=INDEXCHANGE({};{})", levels, lag));
-        array(first, blocks[2].col + 1 + k, T, 1, fmt::format("=INDEXCHANGE({};1)", levels));
+        const addin::FunctionSpec& changeFn = addin::functionSpec("INDEXCHANGE");
+        array(first, blocks[1].col + 1 + k, T, 1,
+              "=" + addin::formulaCall(changeFn, {{"index", levels}, {"lag", std::to_string(lag)}}));
+        array(first, blocks[2].col + 1 + k, T, 1,
+              "=" + addin::formulaCall(changeFn, {{"index", levels}, {"lag", "1"}}));
         format(first, blocks[1].col + 1 + k, T, 1, "0.0");
         format(first, blocks[2].col + 1 + k, T, 1, "0.0");
     }
@@ -360,12 +383,15 @@ ReportPlan Planner::run() {
 
     // Comparison table: one row per index method.
     const int cr = Layout::kSettingsRow, cc = 3;
-    const int compareCols = 7;  // INDEXCOMPARE: name | volatility | snr | largest change | lag | corr | missing
+    const addin::FunctionSpec& compareFn = addin::functionSpec("INDEXCOMPARE");
+    const int compareCols = static_cast<int>(compareFn.width());
     text(cr, cc, "Comparison (INDEXCOMPARE over the chart data; latest period changes)", true);
     if (K > 0) {
         const std::string levelsWithNames = localRange(Layout::kTableHeadRow, bc + 1, last, bc + K);
         array(cr + 1, cc, K + 1, compareCols,
-              fmt::format("=INDEXCOMPARE({};{};\"header=1; titles=1\")", levelsWithNames, freqRef));
+              "=" + addin::formulaCall(compareFn, {{"indexes", levelsWithNames},
+                                                   {"freq", freqRef},
+                                                   {"options", "\"header=1; titles=1\""}}));
         text(cr + 1, cc + compareCols, "Latest period (%)", true);
         text(cr + 1, cc + compareCols + 1, fmt::format("Over {} periods (%)", lag), true);
         for (int k = 0; k < K; ++k) {

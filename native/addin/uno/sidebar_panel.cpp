@@ -488,14 +488,14 @@ private:
         std::string name = formula.substr(b, e == std::string::npos ? std::string::npos : e - b);
         for (char& ch : name) ch = static_cast<char>(std::toupper(static_cast<unsigned char>(ch)));
         const FunctionSpec* f = findFunctionByName(name);
-        if (!f || f->formats.empty()) throw InputError(fmt::format("{} is not a Lintel table", name));
+        if (!f || f->columns.empty()) throw InputError(fmt::format("{} is not a Lintel table", name));
         const css::table::CellRangeAddress r = Reference<css::sheet::XCellRangeAddressable>(cursor, UNO_QUERY_THROW)->getRangeAddress();
-        const int cols = std::min<int>(r.EndColumn - r.StartColumn + 1, static_cast<int>(f->formats.size()));
+        const int cols = std::min<int>(r.EndColumn - r.StartColumn + 1, static_cast<int>(f->columns.size()));
         for (int c = 0; c < cols; ++c) {
-            if (f->formats[c].empty()) continue;
+            if (f->columns[c].format.empty()) continue;
             Reference<css::beans::XPropertySet> col(
                 sheet->getCellRangeByPosition(r.StartColumn + c, r.StartRow, r.StartColumn + c, r.EndRow), UNO_QUERY_THROW);
-            col->setPropertyValue("NumberFormat", Any(numberFormatKey(doc, f->formats[c])));
+            col->setPropertyValue("NumberFormat", Any(numberFormatKey(doc, f->columns[c].format)));
         }
         status(fmt::format("Formatted the {} table ({} rows).", name, r.EndRow - r.StartRow + 1));
     }
