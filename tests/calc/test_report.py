@@ -99,11 +99,11 @@ class ReportTest(unittest.TestCase):
         # Charts and the ranges they show.
         charts = rep.Charts
         names = set(charts.ElementNames)
-        self.assertEqual(names, {"LintelLevels", "LintelYearChange", "LintelPeriodChange",
-                                 "LintelSignalNoise", "LintelSales"})
-        levels = charts.getByName("LintelLevels").Ranges[0]
+        self.assertEqual(names, {"Lintel_r1_levels", "Lintel_r1_yearchange", "Lintel_r1_periodchange",
+                                 "Lintel_r1_signalnoise", "Lintel_r1_sales"})
+        levels = charts.getByName("Lintel_r1_levels").Ranges[0]
         self.assertEqual((levels.StartColumn, levels.StartRow, levels.EndColumn, levels.EndRow), (12, 71, 14, 83))
-        sales_chart = charts.getByName("LintelSales").Ranges[0]
+        sales_chart = charts.getByName("Lintel_r1_sales").Ranges[0]
         self.assertEqual((sales_chart.EndColumn - sales_chart.StartColumn, sales_chart.EndRow), (1, 83))
         # Chart data lines the methods up by period.
         block = sheet_values(rep, "M73:O84")
@@ -164,6 +164,94 @@ class ReportTest(unittest.TestCase):
         self.assertTrue(self.build(mode="update", sheet="Sales").startswith(
             'Lintel: sheet "Sales" is not a Lintel report'))
         self.assertTrue(office.alive())
+
+    # ---- Issue 9 regressions: sheets the report did not make, null date, progress ----------
+
+    def test_never_replaces_a_sheet_it_did_not_make(self):
+        # A user's own sheet that happens to carry the report's name is kept; the report goes
+        # to a free name.
+        self.doc.Sheets.insertNewByName("Report East", 1)
+        mine = self.doc.Sheets.getByName("Report East")
+        mine.getCellRangeByName("C3").setString("my notes")
+        status = self.build(SETTINGS.format(last=len(self.rows)))
+        self.assertTrue(status.startswith("Report East (2): "), status)
+        self.assertEqual(self.doc.Sheets.getByName("Report East").getCellRangeByName("C3").getString(),
+                         "my notes")
+        # Building the same report again rebuilds its own sheet, not the user's.
+        self.assertTrue(self.build(SETTINGS.format(last=len(self.rows))).startswith("Report East (2): "))
+        self.assertEqual(self.doc.Sheets.Count, 3)
+        # A sheet named explicitly that is not a report is refused, the sales sheet included.
+        before = sheet_values(self.doc.Sheets.getByName("Sales"), f"A1:E{len(self.rows)}")
+        got = self.build(SETTINGS.format(last=len(self.rows)) + "sheet=Sales\n")
+        self.assertEqual(got, 'Lintel: the sheet "Sales" exists and is not a Lintel report; Lintel '
+                              'never replaces a sheet it did not make: choose another sheet name')
+        self.assertEqual(sheet_values(self.doc.Sheets.getByName("Sales"), f"A1:E{len(self.rows)}"), before)
+
+    def test_segments_whose_names_truncate_alike_get_their_own_sheets(self):
+        # Calc sheet names have at most 31 characters: two long segment values share the first 31.
+        sales = self.doc.Sheets.getByName("Sales")
+        for r in range(2, len(self.rows) + 1):
+            cell = sales.getCellRangeByName(f"D{r}")
+            cell.setString("Harbourside quarter north side" if cell.getString() == "East"
+                           else "Harbourside quarter north edge")
+        base = SETTINGS.format(last=len(self.rows))
+        a = self.build(base.replace("segment.District=East", "segment.District=Harbourside quarter north side"))
+        b = self.build(base.replace("segment.District=East", "segment.District=Harbourside quarter north edge"))
+        self.assertTrue(a.startswith("Report Harbourside quarter nort: "), a)
+        self.assertTrue(b.startswith("Report Harbourside quarter (2): "), b)
+        self.assertEqual(self.doc.Sheets.Count, 3)
+        # Each report names its charts apart (chart names are unique in a document).
+        first = set(self.doc.Sheets.getByName("Report Harbourside quarter nort").Charts.ElementNames)
+        second = set(self.doc.Sheets.getByName("Report Harbourside quarter (2)").Charts.ElementNames)
+        self.assertEqual(len(first), 5)
+        self.assertEqual(len(second), 5)
+        self.assertFalse(first & second)
+
+    def test_a_document_counting_from_1904(self):
+        # The report reads and writes the document's own serials (NullDate 1904-01-01: 1462 days
+        # later than Calc's default): same periods, base date shown as the same day, charts fed.
+        self.doc.NullDate = uno.createUnoStruct("com.sun.star.util.Date", 1, 1, 1904)
+        sales = self.doc.Sheets.getByName("Sales")
+        shifted = [self.rows[0]] + [(r[0] - 1462,) + tuple(r[1:]) for r in self.rows[1:]]
+        sales.getCellRangeByName(f"A1:E{len(self.rows)}").setDataArray(shifted)
+        status = self.build(SETTINGS.format(last=len(self.rows)))
+        self.assertIn("12 periods (2021-Q1 .. 2023-Q4)", status)
+        rep = self.doc.Sheets.getByName("Report East")
+        self.assertEqual(rep.getCellRangeByName("B9").getString(), "2022-02-10")
+        self.assertEqual(rep.getCellRangeByName("B77").getValue(), 100.0)
+        # The chart data block lines the methods up by period: numbers, not gaps.
+        levels = sheet_values(rep, "N73:N84")
+        self.assertTrue(all(isinstance(v[0], float) for v in levels), levels)
+
+    def test_progress_is_ended_when_a_build_fails(self):
+        import unohelper
+        from com.sun.star.task import XStatusIndicator
+
+        class Recorder(unohelper.Base, XStatusIndicator):
+            def __init__(self):
+                self.calls = []
+
+            def start(self, text, rng):
+                self.calls.append("start")
+
+            def end(self):
+                self.calls.append("end")
+
+            def setText(self, text):
+                pass
+
+            def setValue(self, value):
+                pass
+
+            def reset(self):
+                pass
+
+        rec = Recorder()
+        bad = SETTINGS.format(last=len(self.rows)).replace("price=Price", "price=Cost")
+        got = self.job.execute((NamedValue("Document", self.doc), NamedValue("Mode", "build"),
+                                NamedValue("Settings", bad), NamedValue("StatusIndicator", rec)))
+        self.assertTrue(got.startswith("Lintel: the price column"), got)
+        self.assertEqual(rec.calls, ["start", "end"])
 
 
 if __name__ == "__main__":

@@ -196,6 +196,7 @@ void Planner::countSegment() {
         if (!f.values.empty()) seg.emplace_back(column(f.column, "segment", true), &f);
     long lo = LONG_MAX, hi = LONG_MIN;
     CallContext ctx;
+    ctx.dateOffset = d_.dateOffset;
     for (std::size_t r = 1; r < d_.cells.rows; ++r) {
         const double date = addin::cellDate(d_.cells.at(r, dc), ctx);
         const double price = addin::cellNumber(d_.cells.at(r, pc));
@@ -284,7 +285,7 @@ ReportPlan Planner::run() {
         if (!isUsableSerial(b)) throw InputError(fmt::format("base date \"{}\" is not a date (use YYYY-MM-DD)", s_.baseDate));
         base = b;
     }
-    number(rowBase, 1, base, "YYYY-MM-DD");
+    number(rowBase, 1, base - d_.dateOffset, "YYYY-MM-DD");
     text(rowLevel, 0, "Band level"); number(rowLevel, 1, s_.level, "0%");
     text(sr + 7, 0, "Sales used");
     text(sr + 8, 0, "Built with");
@@ -343,7 +344,8 @@ ReportPlan Planner::run() {
     for (const auto& b : blocks) {
         text(Layout::kTableTitleRow, b.col, b.title, true);
         text(Layout::kTableHeadRow, b.col, "Period", true);
-        for (int t = 0; t < T; ++t) number(first + t, b.col, periodStartOfKey(firstKey_ + t, freq_));
+        for (int t = 0; t < T; ++t)
+            number(first + t, b.col, periodStartOfKey(firstKey_ + t, freq_) - d_.dateOffset);
         format(first, b.col, T, 1, "YYYY-MM");
     }
     for (int k = 0; k < K; ++k) {
@@ -373,7 +375,7 @@ ReportPlan Planner::run() {
     text(Layout::kTableHeadRow, salesBlock, "Period", true);
     text(Layout::kTableHeadRow, salesBlock + 1, "Sales", true);
     for (int t = 0; t < T; ++t) {
-        number(first + t, salesBlock, periodStartOfKey(firstKey_ + t, freq_));
+        number(first + t, salesBlock, periodStartOfKey(firstKey_ + t, freq_) - d_.dateOffset);
         formula(first + t, salesBlock + 1,
                 fmt::format("=IFERROR(INDEX({};MATCH({};{};0));0)", localRange(first, tableCol[0] + 2, last, tableCol[0] + 2),
                             cellRef(first + t, salesBlock), localRange(first, tableCol[0], last, tableCol[0])));
@@ -423,17 +425,17 @@ ReportPlan Planner::run() {
         plan_.charts.push_back(c);
     };
     if (K > 0) {
-        chart("LintelLevels", "Index levels (base period = 100)", ChartSpec::Type::Line,
+        chart("levels", "Index levels (base period = 100)", ChartSpec::Type::Line,
               Layout::kTableHeadRow, bc, T + 1, K + 1, 0);
-        chart("LintelYearChange", "Change over a year (%)", ChartSpec::Type::Line,
+        chart("yearchange", "Change over a year (%)", ChartSpec::Type::Line,
               Layout::kTableHeadRow, blocks[1].col, T + 1, K + 1, 1);
-        chart("LintelPeriodChange", "Change over one period (%)", ChartSpec::Type::Line,
+        chart("periodchange", "Change over one period (%)", ChartSpec::Type::Line,
               Layout::kTableHeadRow, blocks[2].col, T + 1, K + 1, 2);
         // Signal-to-noise per method: the comparison table's name and signal-to-noise columns.
-        chart("LintelSignalNoise", "Signal-to-noise ratio per method (higher = smoother)", ChartSpec::Type::Bar,
+        chart("signalnoise", "Signal-to-noise ratio per method (higher = smoother)", ChartSpec::Type::Bar,
               cr + 1, cc + compareCols + 3, K + 1, 2, 3);
     }
-    chart("LintelSales", "Sales per period", ChartSpec::Type::Bar, Layout::kTableHeadRow, salesBlock,
+    chart("sales", "Sales per period", ChartSpec::Type::Bar, Layout::kTableHeadRow, salesBlock,
           T + 1, 2, 4);
 
     plan_.printRows = last + 1;

@@ -22,6 +22,9 @@ struct SheetData {
     int firstRow = 0;         // 0-based position of the header row
     int firstCol = 0;
     addin::Range cells;       // header row + data rows
+    // Days to add to the document's serials to count from 1899-12-30 (1462 in a document
+    // counting from 1904-01-01): date cells are read and serials written in the document's own.
+    double dateOffset = 0.0;
 };
 
 struct CellWrite {
@@ -38,7 +41,7 @@ struct CellWrite {
 
 struct ChartSpec {
     enum class Type { Line, Bar };
-    std::string name;
+    std::string name;   // short key ("levels"); the builder makes it unique in the document
     std::string title;
     Type type = Type::Line;
     // One block: first column categories (periods or method names), first row series names.

@@ -90,6 +90,7 @@ std::string ReportSettings::serialize() const {
         if (!v.empty()) o << "options." << k << "=" << v << "\n";
     for (const auto& s : segment) o << "segment." << s.column << "=" << joinList(s.values) << "\n";
     o << "sheet=" << sheetName << "\n";
+    if (!reportId.empty()) o << "report=" << reportId << "\n";
     return o.str();
 }
 
@@ -115,6 +116,7 @@ ReportSettings ReportSettings::parse(const std::string& text) {
         else if (key == "freq") s.freq = value.empty() ? "M" : value;
         else if (key == "base") s.baseDate = value;
         else if (key == "sheet") s.sheetName = value;
+        else if (key == "report") s.reportId = value;
         else if (key == "level") {
             char* end = nullptr;
             s.level = std::strtod(value.c_str(), &end);

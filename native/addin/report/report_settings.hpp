@@ -36,6 +36,8 @@ struct ReportSettings {
     std::vector<Method> methods = {Method::Median, Method::Mean};
     std::map<std::string, std::string> advanced;  // method key -> extra options text
     std::string sheetName;                         // empty = named after the segment
+    std::string reportId;  // "r1", "r2" ...: names the objects the report owns (charts, named
+                           // ranges) uniquely in the document; given at the first build
 
     // "key=value" lines; lists separated by "|"; segment as "column=v1|v2" per line.
     std::string serialize() const;

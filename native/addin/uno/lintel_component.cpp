@@ -106,15 +106,30 @@ private:
         return ctx;
     }
 
+    // Reading the arguments, running the function and writing the result each fail in their
+    // own words: out of memory is said as such (never "dates is required"), anything else is
+    // an internal fault, never dressed as an input error.
+    template <class ReadArgs>
     static css::uno::Any dispatch(const char* method,
                                   const css::uno::Reference<css::beans::XPropertySet>& props,
-                                  std::vector<Arg> args) noexcept {
+                                  ReadArgs readArgs) noexcept {
+        const FunctionSpec* f = findFunctionByMethod(method);
+        if (!f) return failureAny("internal fault: unknown function (a bug in Lintel; please report it)");
+        std::vector<Arg> args;
         try {
-            const FunctionSpec* f = findFunctionByMethod(method);
-            if (!f) return failureAny("internal error: unknown function");
-            return toAny(callFunction(*f, args, context(props)));
+            args = readArgs();
+        } catch (const std::bad_alloc&) {
+            return failureAny("out of memory while reading the ranges: use smaller ranges");
         } catch (...) {
-            return failureAny("internal error while converting the result");
+            return failureAny("internal fault while reading the arguments (a bug in Lintel; please report it)");
+        }
+        const OutTable result = callFunction(*f, args, context(props));  // never throws
+        try {
+            return toAny(result);
+        } catch (const std::bad_alloc&) {
+            return failureAny("out of memory while writing the result: select a smaller range");
+        } catch (...) {
+            return failureAny("internal fault while writing the result (a bug in Lintel; please report it)");
         }
     }
 

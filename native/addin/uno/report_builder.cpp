@@ -1,7 +1,8 @@
 // org.lintel.ReportBuilder: builds or updates a report sheet from report settings. Callable
 // from the sidebar panel, from a macro or from a script as a com.sun.star.task.XJob:
 //   execute([Document=<spreadsheet model>, Settings=<settings text>, Mode="build"|"update",
-//            Sheet=<report sheet for update>]) -> status text ("Lintel: ..." on failure)
+//            Sheet=<report sheet for update>, StatusIndicator=<optional progress>])
+//     -> status text ("Lintel: ..." on failure)
 // The layout itself is planned without UNO (report/report_plan.cpp); this file reads the
 // sales table, applies the plan, makes the charts and keeps the settings in the document.
 #include "report_builder.hpp"
@@ -55,15 +56,19 @@
 #include <com/sun/star/task/XStatusIndicatorFactory.hpp>
 #include <com/sun/star/text/XText.hpp>
 #include <com/sun/star/uno/XComponentContext.hpp>
+#include <com/sun/star/util/Date.hpp>
 #include <com/sun/star/util/XNumberFormats.hpp>
 #include <com/sun/star/util/XNumberFormatsSupplier.hpp>
 
 #include <map>
+#include <set>
 
 #include <fmt/format.h>
 
 #include "diagnostics.hpp"
+#include "periods.hpp"
 #include "report_plan.hpp"
+#include "text.hpp"
 #include "uno_cells.hpp"
 
 namespace css = com::sun::star;
@@ -127,11 +132,12 @@ public:
         if (w.charHeight > 0) props->setPropertyValue("CharHeight", Any(static_cast<float>(w.charHeight)));
     }
 
+    // Chart object names are unique in the whole document: "Lintel_r2_levels".
     void chart(const Reference<css::sheet::XSpreadsheet>& sheet, sal_Int16 sheetIndex,
-               const report::ChartSpec& c) {
+               const report::ChartSpec& c, const std::string& reportId) {
         Reference<css::table::XTableChartsSupplier> tcs(sheet, UNO_QUERY_THROW);
         Reference<css::table::XTableCharts> charts = tcs->getCharts();
-        const OUString name = ustr(c.name);
+        const OUString name = ustr(fmt::format("Lintel_{}_{}", reportId, c.name));
         if (charts->hasByName(name)) charts->removeByName(name);
         Reference<css::beans::XPropertySet> anchor(sheet->getCellByPosition(c.anchorCol, c.anchorRow), UNO_QUERY_THROW);
         css::awt::Point pos;
@@ -162,6 +168,17 @@ private:
 };
 
 }  // namespace
+
+double documentDateOffset(const Reference<css::sheet::XSpreadsheetDocument>& doc) {
+    try {
+        Reference<css::beans::XPropertySet> props(doc, UNO_QUERY);
+        css::util::Date d;
+        if (props.is() && (props->getPropertyValue("NullDate") >>= d))
+            return serialFromCivil({d.Year, d.Month, d.Day});
+    } catch (const css::uno::Exception&) {
+    }
+    return 0.0;  // the standard null date 1899-12-30
+}
 
 sal_Int32 numberFormatKey(const Reference<css::sheet::XSpreadsheetDocument>& doc, const std::string& code) {
     Reference<css::util::XNumberFormatsSupplier> nfs(doc, UNO_QUERY_THROW);
@@ -205,6 +222,7 @@ report::SheetData readSalesTable(const Reference<css::sheet::XSpreadsheetDocumen
     Arg cells = toArg(data->getDataArray());
     if (!cells) throw InputError("the sales table could not be read");
     report::SheetData d;
+    d.dateOffset = documentDateOffset(doc);
     d.sheet = sheetName;
     d.firstRow = a.StartRow;
     d.firstCol = a.StartColumn;
@@ -225,6 +243,64 @@ void storeDocumentText(const Reference<css::sheet::XSpreadsheetDocument>& doc, c
 }
 
 namespace {
+
+// The sheet a build writes to. Lintel never deletes or overwrites a sheet it did not make: a
+// sheet is a Lintel report when the document keeps report settings for it. Update rebuilds
+// its own report sheet; Build rebuilds a report sheet of that name only when it is the same
+// report (same sales table and segment), and otherwise takes a free name "Report X (2)". A
+// sheet named explicitly (sheet=) that is not a Lintel report is refused.
+std::string reportSheetName(const Reference<css::sheet::XSpreadsheetDocument>& doc, const std::string& wanted,
+                            report::ReportSettings& settings, bool update) {
+    Reference<css::sheet::XSpreadsheets> sheets = doc->getSheets();
+    if (update) return wanted;
+    // The same report: settings stored for the sheet with the same sales sheet and segment.
+    const auto sameReport = [&](const std::string& name) -> bool {
+        const std::string stored = loadReportSettings(doc, name);
+        if (stored.empty()) return false;
+        const report::ReportSettings old = report::ReportSettings::parse(stored);
+        const auto dataSheet = [](const std::string& range) { return range.substr(0, range.rfind('.')); };
+        if (old.segmentText() != settings.segmentText() || dataSheet(old.dataRange) != dataSheet(settings.dataRange))
+            return false;
+        settings.reportId = old.reportId;
+        return true;
+    };
+    for (int k = 1; k < 1000; ++k) {
+        std::string candidate = wanted;
+        if (k > 1) {
+            const std::string suffix = fmt::format(" ({})", k);
+            if (candidate.size() + suffix.size() > 31) candidate.resize(31 - suffix.size());
+            candidate = addin::trim(candidate) + suffix;
+        }
+        if (!sheets->hasByName(ustr(candidate)) || sameReport(candidate)) return candidate;
+        if (k == 1 && !settings.sheetName.empty() && loadReportSettings(doc, candidate).empty())
+            throw InputError(fmt::format(
+                "the sheet \"{}\" exists and is not a Lintel report; Lintel never replaces a sheet it "
+                "did not make: choose another sheet name",
+                candidate));
+    }
+    throw InputError(fmt::format("no free sheet name for the report \"{}\"", wanted));
+}
+
+// The smallest "r<n>" no report of the document uses.
+std::string freeReportId(const Reference<css::sheet::XSpreadsheetDocument>& doc) {
+    Reference<css::document::XDocumentPropertiesSupplier> dps(doc, UNO_QUERY_THROW);
+    Reference<css::beans::XPropertySet> ps(dps->getDocumentProperties()->getUserDefinedProperties(), UNO_QUERY_THROW);
+    std::set<std::string> used;
+    for (const auto& p : ps->getPropertySetInfo()->getProperties()) {
+        const std::string name = utf8(p.Name);
+        if (name.rfind(kPropertyPrefix, 0) != 0) continue;
+        OUString v;
+        ps->getPropertyValue(p.Name) >>= v;
+        try {
+            used.insert(report::ReportSettings::parse(utf8(v)).reportId);
+        } catch (const InputError&) {
+        }
+    }
+    for (int n = 1;; ++n) {
+        const std::string id = fmt::format("r{}", n);
+        if (!used.count(id)) return id;
+    }
+}
 
 // A page style of our own for report sheets: landscape, one page wide; the print area is the
 // report's top part and its tables.
@@ -279,7 +355,8 @@ std::string loadDocumentText(const Reference<css::sheet::XSpreadsheetDocument>& 
 }
 
 std::string buildReport(const Reference<css::sheet::XSpreadsheetDocument>& doc, const std::string& settingsText,
-                        bool update, const std::string& updateSheet) {
+                        bool update, const std::string& updateSheet,
+                        const Reference<css::task::XStatusIndicator>& givenProgress) {
     report::ReportSettings settings;
     if (update) {
         const std::string stored = loadReportSettings(doc, updateSheet);
@@ -293,13 +370,25 @@ std::string buildReport(const Reference<css::sheet::XSpreadsheetDocument>& doc, 
     if (settings.dataRange.empty()) throw InputError("choose the sales table first");
 
     Reference<css::frame::XModel> model(doc, UNO_QUERY);
-    Reference<css::task::XStatusIndicator> progress;
+    Reference<css::task::XStatusIndicator> progress = givenProgress;
     try {
-        Reference<css::task::XStatusIndicatorFactory> f(model->getCurrentController()->getFrame(), UNO_QUERY);
-        if (f.is()) progress = f->createStatusIndicator();
+        if (!progress.is()) {
+            Reference<css::task::XStatusIndicatorFactory> f(model->getCurrentController()->getFrame(), UNO_QUERY);
+            if (f.is()) progress = f->createStatusIndicator();
+        }
     } catch (...) {
     }
     if (progress.is()) progress->start("Lintel: building the report", 100);
+    // The bar is ended however the build ends (an exception included).
+    struct EndProgress {
+        Reference<css::task::XStatusIndicator> p;
+        ~EndProgress() {
+            try {
+                if (p.is()) p->end();
+            } catch (...) {
+            }
+        }
+    } endProgress{progress};
 
     std::string usedRange;
     const report::SheetData data = readSalesTable(doc, settings.dataRange, update, usedRange);
@@ -309,7 +398,9 @@ std::string buildReport(const Reference<css::sheet::XSpreadsheetDocument>& doc, 
 
     Reference<css::sheet::XSpreadsheets> sheets = doc->getSheets();
     Reference<css::container::XIndexAccess> byIndex(sheets, UNO_QUERY_THROW);
-    const OUString sheetName = ustr(plan.sheetName);
+    const std::string target = reportSheetName(doc, plan.sheetName, settings, update);
+    if (settings.reportId.empty()) settings.reportId = freeReportId(doc);
+    const OUString sheetName = ustr(target);
     sal_Int16 position = static_cast<sal_Int16>(byIndex->getCount());
     if (sheets->hasByName(sheetName)) {
         for (sal_Int32 i = 0; i < byIndex->getCount(); ++i) {
@@ -330,17 +421,19 @@ std::string buildReport(const Reference<css::sheet::XSpreadsheetDocument>& doc, 
     setUpPage(doc, sheet, plan);
     Reference<css::sheet::XCalculatable> calc(doc, UNO_QUERY);
     if (calc.is()) calc->calculateAll();
-    for (const auto& c : plan.charts) applier.chart(sheet, position, c);
+    for (const auto& c : plan.charts) applier.chart(sheet, position, c, settings.reportId);
     if (progress.is()) progress->setValue(95);
 
-    storeDocumentText(doc, kPropertyPrefix + plan.sheetName, settings.serialize());
+    settings.sheetName = target;
+    storeDocumentText(doc, kPropertyPrefix + target, settings.serialize());
+    std::string status = plan.status;
+    if (status.rfind(plan.sheetName, 0) == 0) status = target + status.substr(plan.sheetName.size());
     try {
         Reference<css::sheet::XSpreadsheetView> view(model->getCurrentController(), UNO_QUERY);
         if (view.is()) view->setActiveSheet(sheet);
     } catch (...) {
     }
-    if (progress.is()) progress->end();
-    return plan.status;
+    return status;
 }
 
 namespace {
@@ -353,8 +446,10 @@ public:
         try {
             Reference<css::sheet::XSpreadsheetDocument> doc;
             std::string settings, mode = "build", sheet;
+            Reference<css::task::XStatusIndicator> progress;
             for (const auto& a : args) {
                 if (a.Name == "Document") a.Value >>= doc;
+                else if (a.Name == "StatusIndicator") a.Value >>= progress;
                 else if (a.Name == "Settings") { OUString s; a.Value >>= s; settings = utf8(s); }
                 else if (a.Name == "Mode") { OUString s; a.Value >>= s; mode = utf8(s); }
                 else if (a.Name == "Sheet") { OUString s; a.Value >>= s; sheet = utf8(s); }
@@ -366,15 +461,16 @@ public:
             if (!doc.is()) return Any(OUString("Lintel: no spreadsheet document to build the report in"));
             if (mode != "build" && mode != "update")
                 return Any(OUString("Lintel: Mode must be \"build\" or \"update\""));
-            return Any(ustr(buildReport(doc, settings, mode == "update", sheet)));
+            return Any(ustr(buildReport(doc, settings, mode == "update", sheet, progress)));
         } catch (const InputError& e) {
             return Any(ustr(std::string("Lintel: ") + e.what()));
         } catch (const css::uno::Exception& e) {
             return Any("Lintel: the report could not be built: " + e.Message);
         } catch (const std::exception& e) {
-            return Any(ustr(std::string("Lintel: internal error while building the report: ") + e.what()));
+            return Any(ustr(std::string("Lintel: internal fault while building the report (a bug in "
+                                        "Lintel; please report it): ") + e.what()));
         } catch (...) {
-            return Any(OUString("Lintel: internal error while building the report"));
+            return Any(OUString("Lintel: internal fault while building the report (a bug in Lintel; please report it)"));
         }
     }
 

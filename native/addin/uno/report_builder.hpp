@@ -4,6 +4,7 @@
 #include <string>
 
 #include <com/sun/star/sheet/XSpreadsheetDocument.hpp>
+#include <com/sun/star/task/XStatusIndicator.hpp>
 
 #include "report_plan.hpp"
 
@@ -11,8 +12,11 @@ namespace lintel::addin {
 
 // Builds (update = false, from settingsText) or rebuilds (update = true, from the settings
 // stored for updateSheet) a report; returns the status line. Throws lintel::InputError.
+// Progress goes to `progress` when given, else to the document window's status bar; it is
+// ended however the build ends.
 std::string buildReport(const com::sun::star::uno::Reference<com::sun::star::sheet::XSpreadsheetDocument>& doc,
-                        const std::string& settingsText, bool update, const std::string& updateSheet);
+                        const std::string& settingsText, bool update, const std::string& updateSheet,
+                        const com::sun::star::uno::Reference<com::sun::star::task::XStatusIndicator>& progress = {});
 
 // The settings text stored in the document for a report sheet, or "".
 std::string loadReportSettings(const com::sun::star::uno::Reference<com::sun::star::sheet::XSpreadsheetDocument>& doc,
@@ -22,6 +26,9 @@ std::string loadReportSettings(const com::sun::star::uno::Reference<com::sun::st
 // the region around its header cell (new rows pasted below). usedRange is the range read.
 report::SheetData readSalesTable(const com::sun::star::uno::Reference<com::sun::star::sheet::XSpreadsheetDocument>& doc,
                                  const std::string& dataRange, bool growToRegion, std::string& usedRange);
+
+// Days to add to the document's date serials to count from 1899-12-30 (its NullDate).
+double documentDateOffset(const com::sun::star::uno::Reference<com::sun::star::sheet::XSpreadsheetDocument>& doc);
 
 // The key of a number format code written in English ("YYYY-MM-DD", "0.0"), added if new.
 sal_Int32 numberFormatKey(const com::sun::star::uno::Reference<com::sun::star::sheet::XSpreadsheetDocument>& doc,

@@ -52,6 +52,8 @@
 #include <com/sun/star/uno/XComponentContext.hpp>
 
 #include <algorithm>
+
+#include <rtl/ref.hxx>
 #include <map>
 #include <set>
 
@@ -92,7 +94,12 @@ class ReportPanel
 public:
     ReportPanel(const Reference<css::uno::XComponentContext>& ctx, const Reference<css::frame::XFrame>& frame,
                 const Reference<css::awt::XWindow>& parent)
-        : ctx_(ctx), frame_(frame), parent_(parent) {
+        : ctx_(ctx), frame_(frame), parent_(parent) {}
+
+    // Creates the window and registers the panel as a listener. Called once the panel is held
+    // by a Reference: registering `this` from the constructor would let a listener container
+    // acquire and release it while its reference count is still 0, destroying it.
+    void initialise() {
         const OUString location =
             css::deployment::PackageInformationProvider::get(ctx_)->getPackageLocation(OUString::createFromAscii(kExtensionId));
         extensionUrl_ = utf8(location);
@@ -201,15 +208,15 @@ private:
         } catch (const css::uno::Exception& e) {
             status("Lintel: " + utf8(e.Message));
         } catch (const std::exception& e) {
-            status(std::string("Lintel: internal error: ") + e.what());
+            status(std::string("Lintel: internal fault (a bug in Lintel; please report it): ") + e.what());
         } catch (...) {
-            status("Lintel: internal error");
+            status("Lintel: internal fault (a bug in Lintel; please report it)");
         }
     }
 
     Reference<css::awt::XControl> control(const char* name) const {
         Reference<css::awt::XControl> c = controls_->getControl(OUString::createFromAscii(name));
-        if (!c.is()) throw InputError(fmt::format("internal: the panel has no control {}", name));
+        if (!c.is()) throw std::logic_error(fmt::format("the panel has no control {}", name));
         return c;
     }
     Reference<css::awt::XListBox> list(const char* name) const { return {control(name), UNO_QUERY_THROW}; }
@@ -410,9 +417,11 @@ private:
         const auto f = parseFrequency(settings_.freq).value_or(Frequency::Month);
         const int dc = headerIndex(settings_.dateColumn);
         std::set<long> keys;
+        CallContext ctx;
+        ctx.dateOffset = data_.dateOffset;
         if (dc >= 0)
             for (std::size_t r = 1; r < data_.cells.rows; ++r) {
-                const double d = cellDate(data_.cells.at(r, static_cast<std::size_t>(dc)), {});
+                const double d = cellDate(data_.cells.at(r, static_cast<std::size_t>(dc)), ctx);
                 if (isUsableSerial(d)) keys.insert(periodKey(d, f));
             }
         std::vector<std::string> items;
@@ -550,8 +559,9 @@ public:
         }
         if (!url.endsWith("/ReportPanel") || !frame.is() || !parent.is())
             throw css::lang::IllegalArgumentException("Lintel: unknown panel or missing frame", nullptr, 0);
-        Reference<css::ui::XToolPanel> panel(new ReportPanel(ctx_, frame, parent));
-        return new PanelElement(url, frame, panel);
+        rtl::Reference<ReportPanel> panel(new ReportPanel(ctx_, frame, parent));
+        panel->initialise();
+        return new PanelElement(url, frame, Reference<css::ui::XToolPanel>(panel.get()));
     }
 
     OUString SAL_CALL getImplementationName() override { return "org.lintel.PanelFactory"; }

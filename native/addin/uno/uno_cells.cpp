@@ -64,31 +64,21 @@ css::uno::Any toUno(const OutCell& c) {
 
 }  // namespace
 
-Arg toArg(const css::uno::Sequence<css::uno::Sequence<css::uno::Any>>& v) noexcept {
-    try {
-        return toRange(v);
-    } catch (...) {
-        return std::nullopt;
-    }
-}
+Arg toArg(const css::uno::Sequence<css::uno::Sequence<css::uno::Any>>& v) { return toRange(v); }
 
-Arg toArg(const css::uno::Any& v) noexcept {
-    try {
-        css::uno::Sequence<css::uno::Sequence<css::uno::Any>> seq;
-        if (v >>= seq) {
-            Range r = toRange(seq);
-            r.scalar = false;
-            return r;
-        }
-        if (!v.hasValue()) return std::nullopt;
-        Range r;
-        r.rows = r.cols = 1;
-        r.scalar = true;
-        r.cells.push_back(toCell(v));
+Arg toArg(const css::uno::Any& v) {
+    css::uno::Sequence<css::uno::Sequence<css::uno::Any>> seq;
+    if (v >>= seq) {
+        Range r = toRange(seq);
+        r.scalar = false;
         return r;
-    } catch (...) {
-        return std::nullopt;
     }
+    if (!v.hasValue()) return std::nullopt;
+    Range r;
+    r.rows = r.cols = 1;
+    r.scalar = true;
+    r.cells.push_back(toCell(v));
+    return r;
 }
 
 css::uno::Any toAny(const OutTable& t) {

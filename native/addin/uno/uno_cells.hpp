@@ -19,11 +19,12 @@ std::string utf8(const OUString& s);
 OUString ustr(const std::string& s);
 
 // A range argument (sequence<sequence<any>>): numbers and booleans arrive as double, empty
-// cells as an empty string, text as string.
-Arg toArg(const com::sun::star::uno::Sequence<com::sun::star::uno::Sequence<com::sun::star::uno::Any>>& v) noexcept;
+// cells as an empty string, text as string. Throws std::bad_alloc when memory runs out (the
+// caller says so; it is not a missing argument).
+Arg toArg(const com::sun::star::uno::Sequence<com::sun::star::uno::Sequence<com::sun::star::uno::Any>>& v);
 // An optional argument (any): void when omitted or left empty; a number, a string, or a
 // range as sequence<sequence<any>>.
-Arg toArg(const com::sun::star::uno::Any& v) noexcept;
+Arg toArg(const com::sun::star::uno::Any& v);
 
 // The result: a single value, or a sequence<sequence<any>> padded to a rectangle. A missing
 // value is an empty string: shown blank, skipped by AVERAGE and COUNT, a gap in charts
