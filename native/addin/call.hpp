@@ -78,4 +78,36 @@ private:
     TableLayout layout_;
 };
 
+// The struct O as a call of `spec` would get it from these named values: arguments (freq,
+// base, lag ...) and option keys, each as text as a user would type it ("Q", "0.9",
+// "2020-01-01", "43831"). Names the function does not declare are left to the caller. The
+// reference driver (tests/reference/refcli) reads its options this way, so the checks against
+// outside libraries use the same mapping as Calc. Throws InputError for a bad value.
+template <class O>
+O optionsFromText(const FunctionSpec& spec, const std::map<std::string, std::string>& named) {
+    std::vector<Arg> args(spec.args.size());
+    std::string options;
+    for (const auto& [name, value] : named) {
+        const int i = spec.argIndex(name);
+        if (i >= 0 && name != "options" && spec.args[static_cast<std::size_t>(i)].binding) {
+            Range r;
+            r.rows = r.cols = 1;
+            r.scalar = true;
+            r.cells.push_back(Cell::str(value));
+            args[static_cast<std::size_t>(i)] = r;
+        } else if (spec.option(name)) {
+            options += name + "=" + value + ";";
+        }
+    }
+    const int o = spec.argIndex("options");
+    if (o >= 0 && !options.empty()) {
+        Range r;
+        r.rows = r.cols = 1;
+        r.scalar = true;
+        r.cells.push_back(Cell::str(options));
+        args[static_cast<std::size_t>(o)] = r;
+    }
+    return Call(spec, args, CallContext{}).options<O>();
+}
+
 }  // namespace lintel::addin

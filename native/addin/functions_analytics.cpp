@@ -1,7 +1,7 @@
 // INDEXMIX, INDEXVOLATILITY, INDEXTREND, INDEXSNR, INDEXLEADLAG, INDEXTURNS, INDEXSEASONAL,
 // INDEXCOMPARE: table entries and implementations (conversion and layout only; the
-// statistics are in native/core, see docs/methods/analytics.md and
-// docs/notes/addin-analytics.md for the mapping of arguments and options).
+// statistics are in native/core, see docs/methods/analytics.md; each argument's and option's
+// binding to the Options structs is in the entries below).
 #include <climits>
 #include <cmath>
 #include <optional>

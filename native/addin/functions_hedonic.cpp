@@ -1,6 +1,6 @@
 // INDEXHEDONIC, HEDONICCOEFS, REFHOMEVALUE: the hedonic time-dummy functions. Table entries,
 // cell conversion and layout only; the statistics live in native/core/hedonic.{hpp,cpp}
-// (method: docs/methods/hedonic.md; wiring notes: docs/notes/addin-hedonic.md).
+// (method: docs/methods/hedonic.md).
 #include <climits>
 #include <cmath>
 #include <string>

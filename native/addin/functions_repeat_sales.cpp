@@ -1,7 +1,6 @@
 // CHAINRS, RSPAIRS: the repeat-sales functions. Table entries, cell conversion and layout
 // only; the pairs, filters and estimators live in native/core/repeat_sales.{hpp,cpp} and
-// repeat_sales_pairs.cpp (method: docs/methods/repeat_sales.md; wiring notes:
-// docs/notes/addin-repeat_sales.md).
+// repeat_sales_pairs.cpp (method: docs/methods/repeat_sales.md).
 #include <climits>
 #include <cmath>
 #include <cstdlib>

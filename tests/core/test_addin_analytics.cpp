@@ -1,6 +1,6 @@
 // The analytics functions' cell conversion without UNO (native/addin/functions_analytics.cpp):
 // arguments and options reach the core, results come back in the documented layout
-// (docs/notes/addin-analytics.md), bad input gives a "Lintel:" message.
+// (docs/functions.md), bad input gives a "Lintel:" message.
 // Expected values are hand-computed from the documented formulas (docs/methods/analytics.md)
 // on small constructed inputs; each case says how.
 #include <boost/test/unit_test.hpp>

@@ -1,6 +1,6 @@
 // INDEXHEDONIC, HEDONICCOEFS, REFHOMEVALUE in the add-in, without UNO: cells -> core input,
 // options -> HedonicOptions, results -> cells. Expected values: the documented layout and
-// messages (docs/notes/addin-hedonic.md, docs/functions.md), the generating model of the test
+// messages (docs/functions.md), the generating model of the test
 // data (exact fits), and the core called directly on the same data built by hand (the core
 // itself is checked against statsmodels and R in tests/reference/test_hedonic_*.py).
 //

@@ -1,7 +1,7 @@
 // CHAINRS and RSPAIRS in the add-in, without UNO: cells -> RepeatSalesInput, options ->
 // RepeatSalesOptions, results -> cells. Expected values: the three-period example solved by
 // hand in tests/core/test_repeat_sales.cpp (repeated in the comments below), the documented
-// layout and messages (docs/notes/addin-repeat_sales.md, docs/methods/repeat_sales.md), and
+// layout and messages (docs/functions.md, docs/methods/repeat_sales.md), and
 // day counts of the calendar. The core itself is checked against statsmodels in
 // tests/reference/test_repeat_sales_*.py.
 //
