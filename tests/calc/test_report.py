@@ -65,6 +65,14 @@ class ReportTest(unittest.TestCase):
     def tearDown(self):
         self.doc.close(True)
 
+    def named(self, name):
+        """The cells a named range of the report covers."""
+        return self.doc.NamedRanges.getByName(name).ReferredCells
+
+    def address(self, rng):
+        a = rng.RangeAddress
+        return (a.StartRow, a.StartColumn, a.EndRow, a.EndColumn)
+
     def build(self, settings=None, mode="build", sheet=None):
         args = [NamedValue("Document", self.doc), NamedValue("Mode", mode)]
         if settings is not None:
@@ -78,15 +86,19 @@ class ReportTest(unittest.TestCase):
         self.assertEqual(status.split(":")[0], "Report East")
         self.assertIn("12 periods (2021-Q1 .. 2023-Q4)", status)
         rep = self.doc.Sheets.getByName("Report East")
-        self.assertEqual(rep.getCellRangeByName("A1").getString(), "Price indexes: District = East (2021-Q1 .. 2023-Q4)")
+        last_sale = max(r[0] for r in self.rows[1:] if r[3] == "East")
+        up_to = (EPOCH + pd.Timedelta(days=last_sale)).strftime("%Y-%m-%d")
+        self.assertEqual(rep.getCellRangeByName("A1").getString(),
+                         f"Price indexes: District = East (2021-Q1 .. 2023-Q4), sales up to {up_to}")
         self.assertIn("appraisal by a licensed professional", rep.getCellRangeByName("A2").getString())
         self.assertEqual(rep.getCellRangeByName("B7").getString(), '($Sales.$D$2:$D$901="East")')
-        # Index tables: one array formula per method, sized to the 12 periods.
-        table = rep.getCellRangeByName("A73:E84")
+        # Index tables: one array formula per method, sized to the 12 periods, each a named range.
+        table = self.named("Lintel_r1_table_median")
+        self.assertEqual(table.Rows.Count, 12)
         # (the API shows array formulas in braces with "," separators)
         self.assertEqual(table.getArrayFormula(),
                          '{=INDEXMEDIAN($Sales.$A$2:$A$901,$Sales.$B$2:$B$901,($Sales.$D$2:$D$901="East"),$B$8,$B$9,"level="&$B$10)}')
-        self.assertTrue(rep.getCellRangeByName("G73:K84").getArrayFormula().startswith("{=INDEXMEAN("))
+        self.assertTrue(self.named("Lintel_r1_table_mean").getArrayFormula().startswith("{=INDEXMEAN("))
         # The report's values equal the function called directly.
         direct = self.doc.Sheets
         direct.insertNewByName("Direct", direct.Count)
@@ -94,26 +106,29 @@ class ReportTest(unittest.TestCase):
         d.getCellRangeByName("A1:E12").setArrayFormula(
             '=INDEXMEDIAN($Sales.A2:A901;$Sales.B2:B901;($Sales.D2:D901="East");"Q";DATE(2022;2;10);"level=0.9")')
         self.doc.calculateAll()
-        self.assertEqual(sheet_values(rep, "A73:E84"), sheet_values(d, "A1:E12"))
-        self.assertEqual(rep.getCellRangeByName("B77").getValue(), 100.0)  # 2022-Q1 is the base
+        self.assertEqual([list(r) for r in table.getDataArray()], sheet_values(d, "A1:E12"))
+        self.assertEqual(table.getCellByPosition(1, 4).getValue(), 100.0)  # 2022-Q1 is the base
         # Charts and the ranges they show.
         charts = rep.Charts
         names = set(charts.ElementNames)
         self.assertEqual(names, {"Lintel_r1_levels", "Lintel_r1_yearchange", "Lintel_r1_periodchange",
                                  "Lintel_r1_signalnoise", "Lintel_r1_sales"})
         levels = charts.getByName("Lintel_r1_levels").Ranges[0]
-        self.assertEqual((levels.StartColumn, levels.StartRow, levels.EndColumn, levels.EndRow), (12, 71, 14, 83))
-        sales_chart = charts.getByName("Lintel_r1_sales").Ranges[0]
-        self.assertEqual((sales_chart.EndColumn - sales_chart.StartColumn, sales_chart.EndRow), (1, 83))
+        t0 = table.RangeAddress
+        self.assertEqual((levels.StartRow, levels.EndRow), (t0.StartRow - 1, t0.EndRow))
+        self.assertEqual(levels.EndColumn - levels.StartColumn, 2)  # periods + 2 methods
         # Chart data lines the methods up by period.
-        block = sheet_values(rep, "M73:O84")
-        self.assertEqual([r[1] for r in block], [r[0] for r in sheet_values(rep, "B73:B84")])
+        block = rep.getCellRangeByPosition(levels.StartColumn + 1, t0.StartRow, levels.StartColumn + 1, t0.EndRow)
+        self.assertEqual([r[0] for r in block.getDataArray()], [r[1] for r in table.getDataArray()])
         # Change the base date in the settings block: the whole report follows.
         rep.getCellRangeByName("B9").setValue(float((pd.Timestamp("2023-11-30") - EPOCH).days))
         self.doc.calculateAll()
-        self.assertEqual(rep.getCellRangeByName("B84").getValue(), 100.0)
-        self.assertEqual(rep.getCellRangeByName("H84").getValue(), 100.0)
-        self.assertAlmostEqual(rep.getCellRangeByName("N84").getValue(), 100.0, places=9)
+        self.assertEqual(table.getCellByPosition(1, 11).getValue(), 100.0)
+        self.assertEqual(self.named("Lintel_r1_table_mean").getCellByPosition(1, 11).getValue(), 100.0)
+        # ... and Update keeps the edited base date.
+        self.assertTrue(self.build(mode="update", sheet="Report East").startswith("Report East: "))
+        self.assertEqual(rep.getCellRangeByName("B9").getString(), "2023-11-30")
+        self.assertEqual(self.named("Lintel_r1_table_median").getCellByPosition(1, 11).getValue(), 100.0)
 
     def test_settings_survive_save_reload_and_update_grows(self):
         self.assertTrue(self.build(SETTINGS.format(last=len(self.rows))).startswith("Report East"))
@@ -124,7 +139,7 @@ class ReportTest(unittest.TestCase):
         stored = self.doc.DocumentProperties.UserDefinedProperties.getPropertyValue("Lintel report: Report East")
         self.assertIn("segment.District=East", stored)
         self.assertIn("methods=median|mean", stored)
-        # New sales pasted below the table, in 2024-Q1: update rebuilds in place and grows.
+        # New sales pasted below the table, in 2024-Q1: update rewrites in place and grows.
         sales = self.doc.Sheets.getByName("Sales")
         extra = [(float((pd.Timestamp("2024-02-15") - EPOCH).days), 200000.0 + i, "H900", "East", 90.0)
                  for i in range(5)]
@@ -132,19 +147,20 @@ class ReportTest(unittest.TestCase):
         sales.getCellRangeByName(f"A{last + 1}:E{last + 5}").setDataArray(extra)
         status = self.build(mode="update", sheet="Report East")
         self.assertIn("13 periods (2021-Q1 .. 2024-Q1)", status)
-        rep = self.doc.Sheets.getByName("Report East")
-        self.assertEqual(rep.getCellRangeByName("A73:E85").getArrayFormula().count("$A$2:$A$906"), 1)
-        self.assertEqual(rep.getCellRangeByName("C85").getValue(), 5.0)
-        self.assertEqual(self.doc.Sheets.Count, 2)  # rebuilt in place, not added
+        table = self.named("Lintel_r1_table_median")
+        self.assertEqual(table.Rows.Count, 13)
+        self.assertEqual(table.getArrayFormula().count("$A$2:$A$906"), 1)
+        self.assertEqual(table.getCellByPosition(2, 12).getValue(), 5.0)
+        self.assertEqual(self.doc.Sheets.Count, 2)  # updated in place, not added
 
     def test_sheet_name_with_spaces_and_a_dot(self):
         self.doc.Sheets.getByIndex(0).Name = "Closed sales v1.2"
         settings = SETTINGS.format(last=len(self.rows)).replace("data=Sales.", "data=Closed sales v1.2.")
         status = self.build(settings)
         self.assertTrue(status.startswith("Report East: "), status)
-        rep = self.doc.Sheets.getByName("Report East")
-        self.assertIn("$'Closed sales v1.2'.$A$2:$A$901", rep.getCellRangeByName("A73").getArrayFormula())
-        self.assertEqual(rep.getCellRangeByName("B77").getValue(), 100.0)
+        table = self.named("Lintel_r1_table_median")
+        self.assertIn("$'Closed sales v1.2'.$A$2:$A$901", table.getArrayFormula())
+        self.assertEqual(table.getCellByPosition(1, 4).getValue(), 100.0)
 
     def test_bad_settings_give_messages(self):
         last = len(self.rows)
@@ -218,10 +234,14 @@ class ReportTest(unittest.TestCase):
         self.assertIn("12 periods (2021-Q1 .. 2023-Q4)", status)
         rep = self.doc.Sheets.getByName("Report East")
         self.assertEqual(rep.getCellRangeByName("B9").getString(), "2022-02-10")
-        self.assertEqual(rep.getCellRangeByName("B77").getValue(), 100.0)
+        table = self.named("Lintel_r1_table_median")
+        self.assertEqual(table.getCellByPosition(1, 4).getValue(), 100.0)
         # The chart data block lines the methods up by period: numbers, not gaps.
-        levels = sheet_values(rep, "N73:N84")
-        self.assertTrue(all(isinstance(v[0], float) for v in levels), levels)
+        levels = rep.Charts.getByName("Lintel_r1_levels").Ranges[0]
+        block = rep.getCellRangeByPosition(levels.StartColumn + 1, levels.StartRow + 1,
+                                           levels.StartColumn + 1, levels.EndRow)
+        values = [r[0] for r in block.getDataArray()]
+        self.assertTrue(all(isinstance(v, float) for v in values), values)
 
     def test_progress_is_ended_when_a_build_fails(self):
         import unohelper

@@ -68,11 +68,12 @@ struct Layout {
     // Settings block (column A labels, column B values).
     static constexpr int kSettingsRow = 3;
     // Charts, then the tables.
-    static constexpr int kChartRow = 14;
+    static constexpr int kChartRow = 24;
     static constexpr int kChartRowStep = 18;
-    static constexpr int kTableTitleRow = 70;
-    static constexpr int kTableHeadRow = 71;
-    static constexpr int kTableFirstRow = 72;
+    static constexpr int kRecordRow = 78;  // hidden: the report's record
+    static constexpr int kTableTitleRow = 80;
+    static constexpr int kTableHeadRow = 81;
+    static constexpr int kTableFirstRow = 82;
 };
 
 class Planner {
@@ -93,36 +94,66 @@ private:
     std::string includeExpression();
     void countSegment();
 
+    // Every write belongs to the block begun last; a block owns the bounding box of its writes.
+    void block(const std::string& key, const std::string& title) {
+        for (std::size_t i = 0; i < plan_.blocks.size(); ++i)
+            if (plan_.blocks[i].key == key) {
+                block_ = static_cast<int>(i);
+                return;
+            }
+        PlanBlock b;
+        b.key = key;
+        b.title = title;
+        plan_.blocks.push_back(b);
+        block_ = static_cast<int>(plan_.blocks.size()) - 1;
+    }
+    // The named range of the current block covers these cells (a table's values).
+    void nameCells(int r, int c, int rows, int cols) {
+        plan_.blocks[static_cast<std::size_t>(block_)].named = Rect{r, c, r + rows - 1, c + cols - 1};
+    }
+    CellWrite& add(CellWrite w) {
+        w.block = block_;
+        plan_.cells.push_back(std::move(w));
+        return plan_.cells.back();
+    }
     void text(int r, int c, const std::string& t, bool bold = false, double height = 0) {
         CellWrite w;
         w.kind = CellWrite::Kind::Text;
         w.row = r; w.col = c; w.value = t; w.bold = bold; w.charHeight = height;
-        plan_.cells.push_back(w);
+        add(w);
     }
-    void number(int r, int c, double x, const std::string& format = {}) {
+    CellWrite& number(int r, int c, double x, const std::string& format = {}) {
         CellWrite w;
         w.kind = CellWrite::Kind::Number;
         w.row = r; w.col = c; w.number = x; w.format = format;
-        plan_.cells.push_back(w);
+        return add(w);
     }
     void formula(int r, int c, const std::string& f, const std::string& format = {}) {
         CellWrite w;
         w.kind = CellWrite::Kind::Formula;
         w.row = r; w.col = c; w.value = f; w.format = format;
-        plan_.cells.push_back(w);
+        add(w);
     }
     void array(int r, int c, int rows, int cols, const std::string& f) {
         CellWrite w;
         w.kind = CellWrite::Kind::ArrayFormula;
         w.row = r; w.col = c; w.rows = rows; w.cols = cols; w.value = f;
-        plan_.cells.push_back(w);
+        add(w);
     }
     void format(int r, int c, int rows, int cols, const std::string& f) {
         CellWrite w;
         w.kind = CellWrite::Kind::Format;
         w.row = r; w.col = c; w.rows = rows; w.cols = cols; w.format = f;
-        plan_.cells.push_back(w);
+        add(w);
     }
+    // The period start serials of the chart data as one array formula (EDATE from the first).
+    void periodColumn(int r, int c, int T) {
+        array(r, c, T, 1,
+              fmt::format("=EDATE({};(ROW($A$1:$A${})-1)*{})",
+                          periodStartOfKey(firstKey_, freq_) - d_.dateOffset, T, monthsPerPeriod(freq_)));
+        format(r, c, T, 1, "YYYY-MM");
+    }
+    void finishBlocks();
 
     const ReportSettings& s_;
     const SheetData& d_;
@@ -131,7 +162,18 @@ private:
     long firstKey_ = 0;
     int helperCol_ = 0;
     int helperUsed_ = 0;
+    int block_ = -1;
+    double lastSale_ = 0;  // the latest sale date of the segment (serial from 1899-12-30)
 };
+
+void Planner::finishBlocks() {
+    for (const auto& w : plan_.cells) {
+        if (w.block < 0) continue;
+        Rect& r = plan_.blocks[static_cast<std::size_t>(w.block)].rect;
+        r.include(w.row, w.col);
+        r.include(w.row + w.rows - 1, w.col + w.cols - 1);
+    }
+}
 
 int Planner::column(const std::string& name, const char* role, bool required) const {
     if (name.empty()) {
@@ -153,12 +195,16 @@ std::string Planner::columnsBlock(const std::vector<int>& cols, const std::strin
     // Helper block: one array formula per column, so the block is contiguous.
     const int n = static_cast<int>(d_.cells.rows) - 1;
     const int c0 = helperCol_ + helperUsed_;
+    const int saved = block_;
+    block(what == "Characteristics" ? "copy_characteristics" : "copy_strata",
+          what + " (copied by formula into one block)");
     text(Layout::kTableTitleRow, c0, fmt::format("{} (copied by formula into one block)", what), true);
     for (std::size_t i = 0; i < cols.size(); ++i) {
         text(Layout::kTableHeadRow, c0 + static_cast<int>(i), addin::cellKey(d_.cells.at(0, cols[i])), true);
         array(Layout::kTableFirstRow, c0 + static_cast<int>(i), n, 1, "=" + dataColumn(cols[i]));
     }
     helperUsed_ += static_cast<int>(cols.size()) + 1;
+    block_ = saved;
     return localRange(Layout::kTableFirstRow, c0, Layout::kTableFirstRow + n - 1,
                       c0 + static_cast<int>(cols.size()) - 1);
 }
@@ -208,6 +254,7 @@ void Planner::countSegment() {
         }
         if (!keep) continue;
         ++plan_.salesUsed;
+        lastSale_ = std::max(lastSale_, std::floor(date));
         const long k = periodKey(date, freq_);
         lo = std::min(lo, k);
         hi = std::max(hi, k);
@@ -257,18 +304,27 @@ ReportPlan Planner::run() {
         blockCol += static_cast<int>(addin::functionSpec(methodFunction(methods[i])).width()) + 1;
     }
     const int K = static_cast<int>(indexMethods.size());
-    helperCol_ = blockCol + 4 * (K + 1) + 8;
+    helperCol_ = blockCol + 4 * (K + 2) + 2;
+
+    // The latest period is partial when the last sale falls before its last day: headline
+    // changes then use the period before it, unless the settings include it.
+    const long lastKey = firstKey_ + T - 1;
+    const bool partial = lastSale_ < periodStartOfKey(lastKey + 1, freq_) - 1;
+    const int headlineOffset = partial && !s_.includePartial && T > 1 ? 1 : 0;
+    const std::string salesUpTo = isoDate(lastSale_);
 
     // Title, caution.
-    const std::string range = fmt::format("{} .. {}", periodLabel(firstKey_, freq_),
-                                          periodLabel(firstKey_ + T - 1, freq_));
-    text(0, 0, fmt::format("Price indexes: {} ({})", s_.segmentText(), range), true, 16);
+    block("title", "title and caution");
+    const std::string range = fmt::format("{} .. {}", periodLabel(firstKey_, freq_), periodLabel(lastKey, freq_));
+    text(0, 0, fmt::format("Price indexes: {} ({}), sales up to {}", s_.segmentText(), range, salesUpTo), true, 16);
     text(1, 0, "Caution: an index describes a market, not one home. Time-adjusting a sale is no "
                "substitute for an appraisal by a licensed professional; follow local appraisal "
                "standards and regulations.");
 
-    // Settings block.
+    // Settings block: the values every formula refers to; base date, band level and
+    // frequency may be edited here (Update report keeps them).
     const int sr = Layout::kSettingsRow;
+    block("settings", "settings");
     text(sr, 0, "Settings", true);
     const std::string dates = dataColumn(column(s_.dateColumn, "sale date", true));
     const std::string prices = dataColumn(column(s_.priceColumn, "price", true));
@@ -277,7 +333,13 @@ ReportPlan Planner::run() {
     text(sr + 1, 0, "Sales data"); text(sr + 1, 1, s_.dataRange);
     text(sr + 2, 0, "Segment"); text(sr + 2, 1, s_.segmentText());
     text(sr + 3, 0, "Include expression"); text(sr + 3, 1, include.empty() ? "(all sales)" : include);
-    text(rowFreq, 0, "Frequency"); text(rowFreq, 1, frequencyCode(freq_));
+    text(rowFreq, 0, "Frequency");
+    {
+        CellWrite w;
+        w.kind = CellWrite::Kind::Text;
+        w.row = rowFreq; w.col = 1; w.value = frequencyCode(freq_); w.setting = "freq";
+        add(w);
+    }
     text(rowBase, 0, "Base date");
     double base = periodStartOfKey(firstKey_, freq_);
     if (!s_.baseDate.empty()) {
@@ -285,11 +347,24 @@ ReportPlan Planner::run() {
         if (!isUsableSerial(b)) throw InputError(fmt::format("base date \"{}\" is not a date (use YYYY-MM-DD)", s_.baseDate));
         base = b;
     }
-    number(rowBase, 1, base - d_.dateOffset, "YYYY-MM-DD");
-    text(rowLevel, 0, "Band level"); number(rowLevel, 1, s_.level, "0%");
+    number(rowBase, 1, base - d_.dateOffset, "YYYY-MM-DD").setting = "base";
+    text(rowLevel, 0, "Band level");
+    number(rowLevel, 1, s_.level, "0%").setting = "level";
     text(sr + 7, 0, "Sales used");
-    text(sr + 8, 0, "Built with");
-    text(sr + 8, 1, "Lintel " LINTEL_VERSION " (Update report in the Lintel sidebar rebuilds this sheet)");
+    text(sr + 8, 0, "Sales up to");
+    number(sr + 8, 1, lastSale_ - d_.dateOffset, "YYYY-MM-DD");
+    text(sr + 9, 0, "Headline period");
+    const long headlineKey = lastKey - headlineOffset;
+    text(sr + 9, 1,
+         !partial ? periodLabel(headlineKey, freq_)
+         : headlineOffset ? fmt::format("{} ({} is partial: sales up to {})", periodLabel(headlineKey, freq_),
+                                        periodLabel(lastKey, freq_), salesUpTo)
+                          : fmt::format("{} (partial: sales up to {}; included by the settings)",
+                                        periodLabel(headlineKey, freq_), salesUpTo));
+    text(sr + 10, 0, "Built with");
+    text(sr + 10, 1, "Lintel " LINTEL_VERSION " (Update report in the Lintel sidebar updates this sheet in place)");
+    const int statusRow = sr + 11;
+    text(statusRow, 0, "Method status", true);
 
     const std::string freqRef = cellRef(rowFreq, 1), baseRef = cellRef(rowBase, 1);
     std::string charsBlock, strataBlock, idRange, changedRange;
@@ -301,10 +376,11 @@ ReportPlan Planner::run() {
     // Method tables.
     const int first = Layout::kTableFirstRow;
     const int last = first + T - 1;
-    text(Layout::kTableTitleRow - 1, 0, "Index tables (array formulas; base period = 100)", true);
     for (int i = 0; i < M; ++i) {
         const Method m = methods[i];
         const int c = tableCol[i];
+        block(fmt::format("table_{}", methodKey(m)), fmt::format("index table: {}", methodLabel(m)));
+        if (i == 0) text(Layout::kTableTitleRow - 1, 0, "Index tables (array formulas; base period = 100)", true);
         std::string opts = "\"level=\"&" + cellRef(rowLevel, 1);
         auto adv = s_.advanced.find(methodKey(m));
         if (adv != s_.advanced.end() && !adv->second.empty())
@@ -321,33 +397,44 @@ ReportPlan Planner::run() {
         }
         const std::string call = addin::formulaCall(fn, named);
         text(Layout::kTableTitleRow, c, methodLabel(m), true);
-        const bool home = m == Method::ReferenceHome;
         const int width = static_cast<int>(fn.width());
         for (int h = 0; h < width; ++h) {
             text(Layout::kTableHeadRow, c + h, capitalised(fn.columns[static_cast<std::size_t>(h)].title), true);
-            const std::string& f = fn.columns[static_cast<std::size_t>(h)].format;
-            format(first, c + h, T, 1, h == 0 ? "YYYY-MM" : f);
+            const std::string& fm = fn.columns[static_cast<std::size_t>(h)].format;
+            format(first, c + h, T, 1, h == 0 ? "YYYY-MM" : fm);
         }
         array(first, c, T, width, "=" + call);
-        if (i == 0 && !home)
-            formula(sr + 7, 1, fmt::format("=SUM({})", localRange(first, c + 2, last, c + 2)), "0");
+        nameCells(first, c, T, width);
+        plan_.methodCells.push_back({methodLabel(m), {first, c}});
     }
+    // Method status rows (live: a method whose table shows a message says it here).
+    block("settings", "settings");
+    for (int i = 0; i < M; ++i) {
+        const int r = statusRow + 1 + i;
+        const std::string tl = cellRef(first, tableCol[i]);
+        text(r, 0, methodLabel(methods[i]));
+        formula(r, 1, fmt::format("=IF(ISTEXT({0});{0};\"ok\")", tl));
+    }
+    for (std::size_t i = 0; i < plan_.warnings.size(); ++i)
+        text(statusRow + 1 + M + static_cast<int>(i), 0, "Warning: " + plan_.warnings[i]);
+    if (!methods.empty() && methods[0] != Method::ReferenceHome)
+        formula(sr + 7, 1, fmt::format("=SUM({})", localRange(first, tableCol[0] + 2, last, tableCol[0] + 2)), "0");
 
     // Chart data: the methods lined up by period (IFERROR leaves "" = a gap in the chart).
     const int bc = blockCol;
+    block("chartdata", "chart data");
     text(Layout::kTableTitleRow - 1, bc, "Chart data (methods lined up by period)", true);
     const int lag = periodsPerYear(freq_);
-    struct Block { int col; const char* title; };
-    const std::vector<Block> blocks = {{bc, "Index level"},
-                                       {bc + (K + 2), "Change over a year (%)"},
-                                       {bc + 2 * (K + 2), "Change over one period (%)"}};
+    struct Columns { int col; const char* title; };
+    const std::vector<Columns> blocks = {{bc, "Index level"},
+                                         {bc + (K + 2), "Change over a year (%)"},
+                                         {bc + 2 * (K + 2), "Change over one period (%)"}};
     for (const auto& b : blocks) {
         text(Layout::kTableTitleRow, b.col, b.title, true);
         text(Layout::kTableHeadRow, b.col, "Period", true);
-        for (int t = 0; t < T; ++t)
-            number(first + t, b.col, periodStartOfKey(firstKey_ + t, freq_) - d_.dateOffset);
-        format(first, b.col, T, 1, "YYYY-MM");
+        periodColumn(first, b.col, T);
     }
+    const std::string chartPeriods = localRange(first, bc, last, bc);
     for (int k = 0; k < K; ++k) {
         const Method m = indexMethods[k];
         const int tc = tableCol[std::find(methods.begin(), methods.end(), m) - methods.begin()];
@@ -355,10 +442,8 @@ ReportPlan Planner::run() {
         for (const auto& b : blocks) text(Layout::kTableHeadRow, b.col + 1 + k, methodLabel(m), true);
         const std::string periodsCol = localRange(first, tc, last, tc);
         const std::string indexCol = localRange(first, tc + 1, last, tc + 1);
-        for (int t = 0; t < T; ++t)
-            formula(first + t, lc,
-                    fmt::format("=IFERROR(INDEX({};MATCH({};{};0));\"\")", indexCol,
-                                cellRef(first + t, bc), periodsCol));
+        array(first, lc, T, 1,
+              fmt::format("=IFERROR(INDEX({};MATCH({};{};0));\"\")", indexCol, chartPeriods, periodsCol));
         format(first, lc, T, 1, "0.0");
         const std::string levels = localRange(first, lc, last, lc);
         const addin::FunctionSpec& changeFn = addin::functionSpec("INDEXCHANGE");
@@ -374,38 +459,49 @@ ReportPlan Planner::run() {
     text(Layout::kTableTitleRow, salesBlock, "Sales per period", true);
     text(Layout::kTableHeadRow, salesBlock, "Period", true);
     text(Layout::kTableHeadRow, salesBlock + 1, "Sales", true);
-    for (int t = 0; t < T; ++t) {
-        number(first + t, salesBlock, periodStartOfKey(firstKey_ + t, freq_) - d_.dateOffset);
-        formula(first + t, salesBlock + 1,
-                fmt::format("=IFERROR(INDEX({};MATCH({};{};0));0)", localRange(first, tableCol[0] + 2, last, tableCol[0] + 2),
-                            cellRef(first + t, salesBlock), localRange(first, tableCol[0], last, tableCol[0])));
-    }
-    format(first, salesBlock, T, 1, "YYYY-MM");
+    periodColumn(first, salesBlock, T);
+    array(first, salesBlock + 1, T, 1,
+          fmt::format("=IFERROR(INDEX({};MATCH({};{};0));0)",
+                      localRange(first, tableCol[0] + 2, last, tableCol[0] + 2),
+                      localRange(first, salesBlock, last, salesBlock),
+                      localRange(first, tableCol[0], last, tableCol[0])));
     format(first, salesBlock + 1, T, 1, "0");
+    const std::string salesCol = localRange(first, salesBlock + 1, last, salesBlock + 1);
 
-    // Comparison table: one row per index method.
+    // Comparison table: one row per index method, with the headline changes and their flags.
     const int cr = Layout::kSettingsRow, cc = 3;
+    block("comparison", "comparison");
     const addin::FunctionSpec& compareFn = addin::functionSpec("INDEXCOMPARE");
     const int compareCols = static_cast<int>(compareFn.width());
-    text(cr, cc, "Comparison (INDEXCOMPARE over the chart data; latest period changes)", true);
+    text(cr, cc, fmt::format("Comparison (INDEXCOMPARE over the chart data; headline period {})",
+                             periodLabel(headlineKey, freq_)), true);
+    const int sc = cc + compareCols + 5;  // method | signal-to-noise, for the bar chart
     if (K > 0) {
         const std::string levelsWithNames = localRange(Layout::kTableHeadRow, bc + 1, last, bc + K);
         array(cr + 1, cc, K + 1, compareCols,
               "=" + addin::formulaCall(compareFn, {{"indexes", levelsWithNames},
                                                    {"freq", freqRef},
                                                    {"options", "\"header=1; titles=1\""}}));
-        text(cr + 1, cc + compareCols, "Latest period (%)", true);
-        text(cr + 1, cc + compareCols + 1, fmt::format("Over {} periods (%)", lag), true);
+        const int hc = cc + compareCols;
+        text(cr + 1, hc, "Latest period (%)", true);
+        text(cr + 1, hc + 2, fmt::format("Over {} periods (%)", lag), true);
+        // The sales behind a headline: fewer than `thin` are flagged beside it.
+        const std::string salesAt = fmt::format("INDEX({0};ROWS({0})-{1})", salesCol, headlineOffset);
+        const std::string salesYearAgo =
+            fmt::format("INDEX({0};ROWS({0})-{1})", salesCol, headlineOffset + lag);
         for (int k = 0; k < K; ++k) {
             const std::string pop = localRange(first, blocks[2].col + 1 + k, last, blocks[2].col + 1 + k);
             const std::string yoy = localRange(first, blocks[1].col + 1 + k, last, blocks[1].col + 1 + k);
-            formula(cr + 2 + k, cc + compareCols, fmt::format("=INDEX({};ROWS({}))", pop, pop), "0.0");
-            formula(cr + 2 + k, cc + compareCols + 1, fmt::format("=INDEX({};ROWS({}))", yoy, yoy), "0.0");
+            formula(cr + 2 + k, hc, fmt::format("=IFERROR(INDEX({0};ROWS({0})-{1});\"\")", pop, headlineOffset), "0.0");
+            formula(cr + 2 + k, hc + 1,
+                    fmt::format("=IFERROR(IF({0}<{1};\"thin: \"&{0}&\" sales\";\"\");\"\")", salesAt, s_.thin));
+            formula(cr + 2 + k, hc + 2, fmt::format("=IFERROR(INDEX({0};ROWS({0})-{1});\"\")", yoy, headlineOffset), "0.0");
+            formula(cr + 2 + k, hc + 3,
+                    fmt::format("=IFERROR(IF(MIN({0};{1})<{2};\"thin: \"&MIN({0};{1})&\" sales\";\"\");\"\")",
+                                salesAt, salesYearAgo, s_.thin));
         }
         format(cr + 2, cc + 1, K, compareCols - 1, "0.00");
         format(cr + 2, cc + 2, K, 1, "0.000");  // signal-to-noise: small numbers
-        // Method | signal-to-noise, for the bar chart.
-        const int sc = cc + compareCols + 3;
         text(cr + 1, sc, "Method", true);
         text(cr + 1, sc + 1, "Signal-to-noise", true);
         for (int k = 0; k < K; ++k) {
@@ -413,6 +509,11 @@ ReportPlan Planner::run() {
             formula(cr + 2 + k, sc + 1, fmt::format("={}", cellRef(cr + 2 + k, cc + 2)), "0.000");
         }
     }
+
+    // The record (hidden row): written by the builder.
+    block("record", "record");
+    plan_.recordRow = Layout::kRecordRow;
+    plan_.recordCol = 0;
 
     // Charts: 3 rows of 2, each reading one contiguous block.
     auto chart = [&](const std::string& name, const std::string& title, ChartSpec::Type type,
@@ -431,20 +532,21 @@ ReportPlan Planner::run() {
               Layout::kTableHeadRow, blocks[1].col, T + 1, K + 1, 1);
         chart("periodchange", "Change over one period (%)", ChartSpec::Type::Line,
               Layout::kTableHeadRow, blocks[2].col, T + 1, K + 1, 2);
-        // Signal-to-noise per method: the comparison table's name and signal-to-noise columns.
         chart("signalnoise", "Signal-to-noise ratio per method (higher = smoother)", ChartSpec::Type::Bar,
-              cr + 1, cc + compareCols + 3, K + 1, 2, 3);
+              cr + 1, sc, K + 1, 2, 3);
     }
     chart("sales", "Sales per period", ChartSpec::Type::Bar, Layout::kTableHeadRow, salesBlock,
           T + 1, 2, 4);
 
+    finishBlocks();
+    // The record block owns its one cell.
+    for (auto& b : plan_.blocks)
+        if (b.key == "record") b.rect = Rect{plan_.recordRow, plan_.recordCol, plan_.recordRow, plan_.recordCol};
     plan_.printRows = last + 1;
     plan_.printCols = 16;
-    plan_.status = fmt::format("{}: {} sales, {} periods ({}){}", plan_.sheetName, plan_.salesUsed, T,
-                               range,
+    plan_.status = fmt::format("{}: {} sales, {} periods ({}), sales up to {}{}", plan_.sheetName,
+                               plan_.salesUsed, T, range, salesUpTo,
                                plan_.warnings.empty() ? "" : fmt::format(", {} warning(s)", plan_.warnings.size()));
-    for (std::size_t i = 0; i < plan_.warnings.size(); ++i)
-        text(sr + 9 + static_cast<int>(i), 0, "Warning: " + plan_.warnings[i]);
     return plan_;
 }
 

@@ -12,6 +12,7 @@
 #include <vector>
 
 #include "cell_model.hpp"
+#include "report_record.hpp"
 #include "report_settings.hpp"
 
 namespace lintel::report {
@@ -37,6 +38,17 @@ struct CellWrite {
     std::string format;       // number format code, or empty
     bool bold = false;
     double charHeight = 0.0;  // 0 = default
+    int block = -1;           // the block it belongs to (ReportPlan::blocks)
+    std::string setting;      // an editable settings cell: the report setting it holds
+                              // ("base", "level", "freq"); Update reads it back
+};
+
+// A rectangle of the report sheet the report owns (see report_record.hpp).
+struct PlanBlock {
+    std::string key;     // stable: "settings", "comparison", "table_median", "chartdata" ...
+    std::string title;   // for messages and docs
+    Rect rect;           // the cells it owns (the bounding box of its writes)
+    Rect named;          // what its named range Lintel_<id>_<key> covers; empty: no name
 };
 
 struct ChartSpec {
@@ -53,6 +65,11 @@ struct ChartSpec {
 struct ReportPlan {
     std::string sheetName;
     std::vector<CellWrite> cells;
+    std::vector<PlanBlock> blocks;
+    int recordRow = 0, recordCol = 0;  // the hidden cell that keeps the record
+    // Top-left cells of the method tables with the method's label: a "Lintel: ..." text there
+    // after calculation means the method failed (the builder reports it).
+    std::vector<std::pair<std::string, std::pair<int, int>>> methodCells;
     std::vector<ChartSpec> charts;
     // Print area (0-based, inclusive): title, settings, comparison, charts and the tables.
     int printRows = 0, printCols = 0;

@@ -89,6 +89,8 @@ std::string ReportSettings::serialize() const {
     for (const auto& [k, v] : advanced)
         if (!v.empty()) o << "options." << k << "=" << v << "\n";
     for (const auto& s : segment) o << "segment." << s.column << "=" << joinList(s.values) << "\n";
+    o << "partial=" << (includePartial ? "include" : "exclude") << "\n";
+    o << "thin=" << thin << "\n";
     o << "sheet=" << sheetName << "\n";
     if (!reportId.empty()) o << "report=" << reportId << "\n";
     return o.str();
@@ -117,6 +119,17 @@ ReportSettings ReportSettings::parse(const std::string& text) {
         else if (key == "base") s.baseDate = value;
         else if (key == "sheet") s.sheetName = value;
         else if (key == "report") s.reportId = value;
+        else if (key == "partial") {
+            if (value != "include" && value != "exclude" && !value.empty())
+                throw InputError(fmt::format("report setting partial must be include or exclude, got \"{}\"", value));
+            s.includePartial = value == "include";
+        } else if (key == "thin") {
+            char* end = nullptr;
+            const long n = std::strtol(value.c_str(), &end, 10);
+            if (value.empty() || *end || n < 0 || n > 1000000)
+                throw InputError(fmt::format("report setting thin must be a whole number of sales, got \"{}\"", value));
+            s.thin = static_cast<int>(n);
+        }
         else if (key == "level") {
             char* end = nullptr;
             s.level = std::strtod(value.c_str(), &end);

@@ -36,6 +36,9 @@ struct ReportSettings {
     std::vector<Method> methods = {Method::Median, Method::Mean};
     std::map<std::string, std::string> advanced;  // method key -> extra options text
     std::string sheetName;                         // empty = named after the segment
+    bool includePartial = false;  // partial=include: headline changes use a last period that
+                                  // is not over yet (default: the last complete period)
+    int thin = 20;                // thin: a headline figure resting on fewer sales is flagged
     std::string reportId;  // "r1", "r2" ...: names the objects the report owns (charts, named
                            // ranges) uniquely in the document; given at the first build
 

@@ -24,6 +24,17 @@
 #include <com/sun/star/document/XDocumentProperties.hpp>
 #include <com/sun/star/document/XDocumentPropertiesSupplier.hpp>
 #include <com/sun/star/document/XEmbeddedObjectSupplier.hpp>
+#include <com/sun/star/document/XUndoManager.hpp>
+#include <com/sun/star/document/XUndoManagerSupplier.hpp>
+#include <com/sun/star/sheet/CellFlags.hpp>
+#include <com/sun/star/sheet/XCellRangeReferrer.hpp>
+#include <com/sun/star/sheet/XCellRangesQuery.hpp>
+#include <com/sun/star/sheet/XNamedRange.hpp>
+#include <com/sun/star/sheet/XNamedRanges.hpp>
+#include <com/sun/star/sheet/XSheetCellRanges.hpp>
+#include <com/sun/star/sheet/XSheetOperation.hpp>
+#include <com/sun/star/table/CellAddress.hpp>
+#include <com/sun/star/table/CellContentType.hpp>
 #include <com/sun/star/frame/Desktop.hpp>
 #include <com/sun/star/frame/XController.hpp>
 #include <com/sun/star/frame/XDesktop2.hpp>
@@ -60,7 +71,9 @@
 #include <com/sun/star/util/XNumberFormats.hpp>
 #include <com/sun/star/util/XNumberFormatsSupplier.hpp>
 
+#include <algorithm>
 #include <map>
+#include <optional>
 #include <set>
 
 #include <fmt/format.h>
@@ -133,8 +146,8 @@ public:
     }
 
     // Chart object names are unique in the whole document: "Lintel_r2_levels".
-    void chart(const Reference<css::sheet::XSpreadsheet>& sheet, sal_Int16 sheetIndex,
-               const report::ChartSpec& c, const std::string& reportId) {
+    std::string chart(const Reference<css::sheet::XSpreadsheet>& sheet, sal_Int16 sheetIndex,
+                      const report::ChartSpec& c, const std::string& reportId) {
         Reference<css::table::XTableChartsSupplier> tcs(sheet, UNO_QUERY_THROW);
         Reference<css::table::XTableCharts> charts = tcs->getCharts();
         const OUString name = ustr(fmt::format("Lintel_{}_{}", reportId, c.name));
@@ -160,6 +173,7 @@ public:
         title->setPropertyValue("CharHeight", Any(static_cast<float>(11)));
         // A legend names the methods; a chart of one series needs none.
         cp->setPropertyValue("HasLegend", Any(c.cols > 2 || (c.type == report::ChartSpec::Type::Line && c.cols > 1)));
+        return utf8(name);
     }
 
 private:
@@ -354,16 +368,229 @@ std::string loadDocumentText(const Reference<css::sheet::XSpreadsheetDocument>& 
     return utf8(v);
 }
 
+namespace {
+
+// ---- The report's record and the sheet as the update check reads it -------------------
+
+const char* kRecordSuffix = "_record";
+
+Reference<css::sheet::XNamedRanges> namedRanges(const Reference<css::sheet::XSpreadsheetDocument>& doc) {
+    Reference<css::beans::XPropertySet> props(doc, UNO_QUERY_THROW);
+    return Reference<css::sheet::XNamedRanges>(props->getPropertyValue("NamedRanges"), UNO_QUERY_THROW);
+}
+
+// The cell a named range points to (its top-left), or nullopt.
+std::optional<css::table::CellAddress> namedCell(const Reference<css::sheet::XSpreadsheetDocument>& doc,
+                                                 const std::string& name) {
+    Reference<css::sheet::XNamedRanges> names = namedRanges(doc);
+    if (!names->hasByName(ustr(name))) return std::nullopt;
+    Reference<css::sheet::XCellRangeReferrer> ref(names->getByName(ustr(name)), UNO_QUERY);
+    if (!ref.is()) return std::nullopt;
+    try {
+        Reference<css::sheet::XCellRangeAddressable> ra(ref->getReferredCells(), UNO_QUERY);
+        if (!ra.is()) return std::nullopt;
+        const css::table::CellRangeAddress a = ra->getRangeAddress();
+        return css::table::CellAddress(a.Sheet, a.StartColumn, a.StartRow);
+    } catch (const css::uno::RuntimeException&) {
+        return std::nullopt;  // #REF!: the sheet was deleted
+    }
+}
+
+std::string sheetNameAt(const Reference<css::sheet::XSpreadsheetDocument>& doc, sal_Int16 index) {
+    Reference<css::container::XIndexAccess> sheets(doc->getSheets(), UNO_QUERY_THROW);
+    return utf8(Reference<css::container::XNamed>(sheets->getByIndex(index), UNO_QUERY_THROW)->getName());
+}
+
+// The record of the report on a sheet: found through the named range Lintel_<id>_record
+// that points into it.
+struct FoundReport {
+    report::ReportRecord record;
+    css::table::CellAddress cell;
+};
+std::optional<FoundReport> findReportOnSheet(const Reference<css::sheet::XSpreadsheetDocument>& doc,
+                                             const std::string& sheetName) {
+    Reference<css::sheet::XNamedRanges> names = namedRanges(doc);
+    for (const OUString& n : names->getElementNames()) {
+        const std::string name = utf8(n);
+        if (name.rfind("Lintel_", 0) != 0 || name.size() < 8 ||
+            name.compare(name.size() - std::string(kRecordSuffix).size(), std::string::npos, kRecordSuffix) != 0)
+            continue;
+        const auto cell = namedCell(doc, name);
+        if (!cell || sheetNameAt(doc, cell->Sheet) != sheetName) continue;
+        Reference<css::container::XIndexAccess> sheets(doc->getSheets(), UNO_QUERY_THROW);
+        Reference<css::sheet::XSpreadsheet> sheet(sheets->getByIndex(cell->Sheet), UNO_QUERY_THROW);
+        Reference<css::text::XText> text(sheet->getCellByPosition(cell->Column, cell->Row), UNO_QUERY_THROW);
+        return FoundReport{report::ReportRecord::parse(utf8(text->getString())), *cell};
+    }
+    return std::nullopt;
+}
+
+class UnoSheetView : public report::SheetView {
+public:
+    explicit UnoSheetView(Reference<css::sheet::XSpreadsheet> sheet) : sheet_(std::move(sheet)) {}
+    std::vector<std::pair<int, int>> contentCells(const report::Rect& r) override {
+        std::vector<std::pair<int, int>> out;
+        if (r.isEmpty()) return out;
+        Reference<css::sheet::XCellRangesQuery> q(
+            sheet_->getCellRangeByPosition(r.col0, r.row0, r.col1, r.row1), UNO_QUERY_THROW);
+        const sal_Int16 flags = css::sheet::CellFlags::VALUE | css::sheet::CellFlags::DATETIME |
+                                css::sheet::CellFlags::STRING | css::sheet::CellFlags::FORMULA;
+        Reference<css::sheet::XSheetCellRanges> found = q->queryContentCells(flags);
+        for (const auto& a : found->getRangeAddresses())
+            for (sal_Int32 row = a.StartRow; row <= a.EndRow; ++row)
+                for (sal_Int32 col = a.StartColumn; col <= a.EndColumn; ++col) out.emplace_back(row, col);
+        return out;
+    }
+    std::string content(int row, int col) override {
+        return utf8(sheet_->getCellByPosition(col, row)->getFormula());
+    }
+    std::string arrayFormula(const report::Rect& r) override {
+        Reference<css::sheet::XArrayFormulaRange> af(
+            sheet_->getCellRangeByPosition(r.col0, r.row0, r.col1, r.row1), UNO_QUERY_THROW);
+        return utf8(af->getArrayFormula());
+    }
+
+private:
+    Reference<css::sheet::XSpreadsheet> sheet_;
+};
+
+// Edit > Undo takes a build or an update back in one step.
+class UndoStep {
+public:
+    UndoStep(const Reference<css::sheet::XSpreadsheetDocument>& doc, const std::string& title) {
+        Reference<css::document::XUndoManagerSupplier> ums(doc, UNO_QUERY);
+        if (ums.is()) manager_ = ums->getUndoManager();
+        if (manager_.is()) manager_->enterUndoContext(ustr(title));
+    }
+    ~UndoStep() {
+        try {
+            if (manager_.is()) manager_->leaveUndoContext();
+        } catch (...) {
+        }
+    }
+    UndoStep(const UndoStep&) = delete;
+    UndoStep& operator=(const UndoStep&) = delete;
+
+private:
+    Reference<css::document::XUndoManager> manager_;
+};
+
+// The values of the settings cells the user may edit (base date, band level, frequency).
+void readEditedSettings(const Reference<css::sheet::XSpreadsheet>& sheet, const report::ReportRecord& record,
+                        double dateOffset, report::ReportSettings& settings) {
+    for (const auto& e : record.editable) {
+        Reference<css::table::XCell> cell = sheet->getCellByPosition(e.col, e.row);
+        const std::string text = utf8(Reference<css::text::XText>(cell, UNO_QUERY_THROW)->getString());
+        if (e.setting == "base") {
+            if (cell->getType() == css::table::CellContentType_VALUE) settings.baseDate = isoDate(cell->getValue() + dateOffset);
+            else if (!trim(text).empty()) settings.baseDate = trim(text);
+        } else if (e.setting == "level") {
+            const double x = cell->getValue();
+            if (cell->getType() == css::table::CellContentType_VALUE && x > 0 && x < 1) settings.level = x;
+            else throw InputError(fmt::format("the band level in the settings block must lie between 0 and 1, got \"{}\"", text));
+        } else if (e.setting == "freq") {
+            const auto f = parseFrequency(trim(text));
+            if (!f) throw InputError(fmt::format("the frequency in the settings block must be M, Q or Y, got \"{}\"", text));
+            settings.freq = frequencyCode(*f);
+        }
+    }
+}
+
+void clearCells(const Reference<css::sheet::XSpreadsheet>& sheet, const report::Rect& r, sal_Int32 flags) {
+    if (r.isEmpty()) return;
+    Reference<css::sheet::XSheetOperation> op(sheet->getCellRangeByPosition(r.col0, r.row0, r.col1, r.row1), UNO_QUERY_THROW);
+    op->clearContents(flags);
+}
+
+// Removes what the old build wrote (its cells, arrays, formats and charts); user cells
+// outside its blocks are untouched (and there are none inside: checked before).
+void removeOld(const Reference<css::sheet::XSpreadsheet>& sheet, const report::ReportRecord& old) {
+    const sal_Int32 all = css::sheet::CellFlags::VALUE | css::sheet::CellFlags::DATETIME |
+                          css::sheet::CellFlags::STRING | css::sheet::CellFlags::FORMULA |
+                          css::sheet::CellFlags::HARDATTR;
+    for (const auto& a : old.arrays) clearCells(sheet, a.rect, all);
+    for (const auto& b : old.blocks) clearCells(sheet, b.rect, all);
+    Reference<css::table::XTableCharts> charts = Reference<css::table::XTableChartsSupplier>(sheet, UNO_QUERY_THROW)->getCharts();
+    for (const auto& c : old.charts)
+        if (charts->hasByName(ustr(c))) charts->removeByName(ustr(c));
+}
+
+// Named ranges of the report's blocks: Lintel_<id>_<key>; an existing one gets its new
+// content, so formulas elsewhere that use it keep working when a table grows.
+std::vector<std::string> defineNames(const Reference<css::sheet::XSpreadsheetDocument>& doc, const std::string& sheetName,
+                                     sal_Int16 sheetIndex, const report::ReportPlan& plan, const std::string& id,
+                                     const report::ReportRecord* old) {
+    Reference<css::sheet::XNamedRanges> names = namedRanges(doc);
+    std::vector<std::string> defined;
+    auto define = [&](const std::string& name, const report::Rect& r) {
+        const std::string content = report::absoluteRange(sheetName, r.row0, r.col0, r.row1, r.col1);
+        if (names->hasByName(ustr(name))) {
+            Reference<css::sheet::XNamedRange>(names->getByName(ustr(name)), UNO_QUERY_THROW)->setContent(ustr(content));
+        } else {
+            names->addNewByName(ustr(name), ustr(content), css::table::CellAddress(sheetIndex, 0, 0), 0);
+        }
+        defined.push_back(name);
+    };
+    for (const auto& b : plan.blocks)
+        if (!b.named.isEmpty()) define(fmt::format("Lintel_{}_{}", id, b.key), b.named);
+    define(fmt::format("Lintel_{}{}", id, kRecordSuffix),
+           report::Rect{plan.recordRow, plan.recordCol, plan.recordRow, plan.recordCol});
+    if (old)
+        for (const auto& n : old->names)
+            if (std::find(defined.begin(), defined.end(), n) == defined.end() && names->hasByName(ustr(n)))
+                names->removeByName(ustr(n));
+    return defined;
+}
+
+// What was written, read back as Calc keeps it, for the next update's check.
+report::ReportRecord makeRecord(const Reference<css::sheet::XSpreadsheet>& sheet, const report::ReportPlan& plan,
+                                const report::ReportSettings& settings, std::vector<std::string> charts,
+                                std::vector<std::string> names) {
+    report::ReportRecord r;
+    r.reportId = settings.reportId;
+    r.settings = settings.serialize();
+    for (const auto& b : plan.blocks) r.blocks.push_back({b.key, b.title, b.rect});
+    UnoSheetView view(sheet);
+    for (const auto& w : plan.cells) {
+        using Kind = report::CellWrite::Kind;
+        if (w.kind == Kind::Format) continue;
+        if (!w.setting.empty()) {
+            r.editable.push_back({w.row, w.col, w.setting});
+        } else if (w.kind == Kind::ArrayFormula) {
+            const report::Rect rect{w.row, w.col, w.row + w.rows - 1, w.col + w.cols - 1};
+            r.arrays.push_back({rect, report::contentHash(view.arrayFormula(rect))});
+        } else {
+            r.cells.push_back({w.row, w.col, report::contentHash(view.content(w.row, w.col))});
+        }
+    }
+    r.editable.push_back({plan.recordRow, plan.recordCol, "record"});
+    r.charts = std::move(charts);
+    r.names = std::move(names);
+    return r;
+}
+
+}  // namespace
+
 std::string buildReport(const Reference<css::sheet::XSpreadsheetDocument>& doc, const std::string& settingsText,
                         bool update, const std::string& updateSheet,
                         const Reference<css::task::XStatusIndicator>& givenProgress) {
+    const double dateOffset = documentDateOffset(doc);
+    Reference<css::sheet::XSpreadsheets> sheets = doc->getSheets();
     report::ReportSettings settings;
+    std::optional<FoundReport> found;
     if (update) {
-        const std::string stored = loadReportSettings(doc, updateSheet);
+        if (!sheets->hasByName(ustr(updateSheet)))
+            throw InputError(fmt::format("there is no sheet \"{}\" to update", updateSheet));
+        found = findReportOnSheet(doc, updateSheet);
+        const std::string stored = found ? found->record.settings : loadReportSettings(doc, updateSheet);
         if (stored.empty())
             throw InputError(fmt::format("sheet \"{}\" is not a Lintel report (no settings stored for it)", updateSheet));
         settings = report::ReportSettings::parse(stored);
         settings.sheetName = updateSheet;
+        if (found) {
+            Reference<css::sheet::XSpreadsheet> sheet(sheets->getByName(ustr(updateSheet)), UNO_QUERY_THROW);
+            readEditedSettings(sheet, found->record, dateOffset, settings);
+        }
     } else {
         settings = report::ReportSettings::parse(settingsText);
     }
@@ -378,7 +605,7 @@ std::string buildReport(const Reference<css::sheet::XSpreadsheetDocument>& doc, 
         }
     } catch (...) {
     }
-    if (progress.is()) progress->start("Lintel: building the report", 100);
+    if (progress.is()) progress->start(update ? "Lintel: updating the report" : "Lintel: building the report", 100);
     // The bar is ended however the build ends (an exception included).
     struct EndProgress {
         Reference<css::task::XStatusIndicator> p;
@@ -390,27 +617,47 @@ std::string buildReport(const Reference<css::sheet::XSpreadsheetDocument>& doc, 
         }
     } endProgress{progress};
 
+    // The sales table grows with the data: the region around its header row is read, so rows
+    // added below it are taken in.
     std::string usedRange;
-    const report::SheetData data = readSalesTable(doc, settings.dataRange, update, usedRange);
+    const report::SheetData data = readSalesTable(doc, settings.dataRange, true, usedRange);
     settings.dataRange = usedRange;
-    const report::ReportPlan plan = report::planReport(settings, data);
+    report::ReportPlan plan = report::planReport(settings, data);
     if (progress.is()) progress->setValue(20);
 
-    Reference<css::sheet::XSpreadsheets> sheets = doc->getSheets();
     Reference<css::container::XIndexAccess> byIndex(sheets, UNO_QUERY_THROW);
     const std::string target = reportSheetName(doc, plan.sheetName, settings, update);
-    if (settings.reportId.empty()) settings.reportId = freeReportId(doc);
     const OUString sheetName = ustr(target);
+    if (!update && sheets->hasByName(sheetName)) found = findReportOnSheet(doc, target);  // the same report again
+    if (found && !found->record.reportId.empty()) settings.reportId = found->record.reportId;
+    if (settings.reportId.empty()) settings.reportId = freeReportId(doc);
+
+    UndoStep undo(doc, update || found ? "Lintel: update report" : "Lintel: build report");
     sal_Int16 position = static_cast<sal_Int16>(byIndex->getCount());
     if (sheets->hasByName(sheetName)) {
         for (sal_Int32 i = 0; i < byIndex->getCount(); ++i) {
             Reference<css::container::XNamed> named(byIndex->getByIndex(i), UNO_QUERY);
             if (named.is() && named->getName() == sheetName) position = static_cast<sal_Int16>(i);
         }
-        sheets->removeByName(sheetName);
     }
-    sheets->insertNewByName(sheetName, position);
-    Reference<css::sheet::XSpreadsheet> sheet(sheets->getByName(sheetName), UNO_QUERY_THROW);
+    Reference<css::sheet::XSpreadsheet> sheet;
+    if (found) {
+        // In place: nothing the user typed may be in the way.
+        sheet.set(sheets->getByName(sheetName), UNO_QUERY_THROW);
+        std::vector<report::ReportRecord::Block> next;
+        for (const auto& b : plan.blocks) next.push_back({b.key, b.title, b.rect});
+        UnoSheetView view(sheet);
+        const std::string conflict = report::findUserCell(found->record, next, view, target);
+        if (!conflict.empty()) throw InputError(conflict);
+        removeOld(sheet, found->record);
+    } else {
+        if (sheets->hasByName(sheetName)) {
+            // A report sheet of an earlier version, without a record: made by Lintel, rebuilt.
+            sheets->removeByName(sheetName);
+        }
+        sheets->insertNewByName(sheetName, position);
+        sheet.set(sheets->getByName(sheetName), UNO_QUERY_THROW);
+    }
 
     Applier applier(doc);
     const std::size_t n = plan.cells.size();
@@ -421,13 +668,39 @@ std::string buildReport(const Reference<css::sheet::XSpreadsheetDocument>& doc, 
     setUpPage(doc, sheet, plan);
     Reference<css::sheet::XCalculatable> calc(doc, UNO_QUERY);
     if (calc.is()) calc->calculateAll();
-    for (const auto& c : plan.charts) applier.chart(sheet, position, c, settings.reportId);
+    std::vector<std::string> chartNames;
+    for (const auto& c : plan.charts) chartNames.push_back(applier.chart(sheet, position, c, settings.reportId));
+    const std::vector<std::string> names =
+        defineNames(doc, target, position, plan, settings.reportId, found ? &found->record : nullptr);
     if (progress.is()) progress->setValue(95);
 
+    // The record, in a hidden cell of the sheet itself (so an undo restores it with the sheet).
     settings.sheetName = target;
+    const report::ReportRecord record = makeRecord(sheet, plan, settings, chartNames, names);
+    Reference<css::text::XText>(sheet->getCellByPosition(plan.recordCol, plan.recordRow), UNO_QUERY_THROW)
+        ->setString(ustr(record.serialize()));
+    {
+        Reference<css::table::XColumnRowRange> crr(sheet, UNO_QUERY_THROW);
+        Reference<css::container::XIndexAccess> rows(crr->getRows(), UNO_QUERY_THROW);
+        Reference<css::beans::XPropertySet>(rows->getByIndex(plan.recordRow), UNO_QUERY_THROW)
+            ->setPropertyValue("IsVisible", Any(false));
+    }
     storeDocumentText(doc, kPropertyPrefix + target, settings.serialize());
+
+    // A method that failed says so here and in its table.
+    std::string failures;
+    int failed = 0;
+    for (const auto& [label, cell] : plan.methodCells) {
+        Reference<css::table::XCell> c = sheet->getCellByPosition(cell.second, cell.first);
+        const std::string t = utf8(Reference<css::text::XText>(c, UNO_QUERY_THROW)->getString());
+        if (t.rfind("Lintel:", 0) == 0) {
+            ++failed;
+            failures += fmt::format("{}{}: {}", failures.empty() ? "" : "; ", label, t.substr(8));
+        }
+    }
     std::string status = plan.status;
     if (status.rfind(plan.sheetName, 0) == 0) status = target + status.substr(plan.sheetName.size());
+    if (failed) status += fmt::format("; {} method{} failed: {}", failed, failed > 1 ? "s" : "", failures);
     try {
         Reference<css::sheet::XSpreadsheetView> view(model->getCurrentController(), UNO_QUERY);
         if (view.is()) view->setActiveSheet(sheet);
