@@ -502,6 +502,7 @@ ReportPlan Planner::run() {
         }
         format(cr + 2, cc + 1, K, compareCols - 1, "0.00");
         format(cr + 2, cc + 2, K, 1, "0.000");  // signal-to-noise: small numbers
+        nameCells(cr + 1, cc, K + 1, compareCols + 4);
         text(cr + 1, sc, "Method", true);
         text(cr + 1, sc + 1, "Signal-to-noise", true);
         for (int k = 0; k < K; ++k) {
