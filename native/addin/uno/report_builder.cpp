@@ -571,6 +571,22 @@ report::ReportRecord makeRecord(const Reference<css::sheet::XSpreadsheet>& sheet
 
 }  // namespace
 
+std::optional<report::ReportSettings> reportSettingsOnSheet(const Reference<css::sheet::XSpreadsheetDocument>& doc,
+                                                          const std::string& sheetName) {
+    Reference<css::sheet::XSpreadsheets> sheets = doc->getSheets();
+    if (!sheets->hasByName(ustr(sheetName))) return std::nullopt;
+    const auto found = findReportOnSheet(doc, sheetName);
+    const std::string stored = found ? found->record.settings : loadReportSettings(doc, sheetName);
+    if (stored.empty()) return std::nullopt;
+    report::ReportSettings s = report::ReportSettings::parse(stored);
+    if (found) {
+        Reference<css::sheet::XSpreadsheet> sheet(sheets->getByName(ustr(sheetName)), UNO_QUERY_THROW);
+        readEditedSettings(sheet, found->record, documentDateOffset(doc), s);
+    }
+    s.sheetName = sheetName;
+    return s;
+}
+
 std::string buildReport(const Reference<css::sheet::XSpreadsheetDocument>& doc, const std::string& settingsText,
                         bool update, const std::string& updateSheet,
                         const Reference<css::task::XStatusIndicator>& givenProgress) {
@@ -585,12 +601,18 @@ std::string buildReport(const Reference<css::sheet::XSpreadsheetDocument>& doc, 
         const std::string stored = found ? found->record.settings : loadReportSettings(doc, updateSheet);
         if (stored.empty())
             throw InputError(fmt::format("sheet \"{}\" is not a Lintel report (no settings stored for it)", updateSheet));
-        settings = report::ReportSettings::parse(stored);
-        settings.sheetName = updateSheet;
-        if (found) {
-            Reference<css::sheet::XSpreadsheet> sheet(sheets->getByName(ustr(updateSheet)), UNO_QUERY_THROW);
-            readEditedSettings(sheet, found->record, dateOffset, settings);
+        if (!settingsText.empty()) {
+            // The panel's edits of this report's settings.
+            settings = report::ReportSettings::parse(settingsText);
+            settings.reportId = report::ReportSettings::parse(stored).reportId;
+        } else {
+            settings = report::ReportSettings::parse(stored);
+            if (found) {
+                Reference<css::sheet::XSpreadsheet> sheet(sheets->getByName(ustr(updateSheet)), UNO_QUERY_THROW);
+                readEditedSettings(sheet, found->record, dateOffset, settings);
+            }
         }
+        settings.sheetName = updateSheet;
     } else {
         settings = report::ReportSettings::parse(settingsText);
     }

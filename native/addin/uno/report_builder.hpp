@@ -1,6 +1,7 @@
 // Building a report sheet in a document (used by the ReportBuilder job and the sidebar).
 #pragma once
 
+#include <optional>
 #include <string>
 
 #include <com/sun/star/sheet/XSpreadsheetDocument.hpp>
@@ -10,13 +11,20 @@
 
 namespace lintel::addin {
 
-// Builds (update = false, from settingsText) or rebuilds (update = true, from the settings
-// stored for updateSheet) a report; returns the status line. Throws lintel::InputError.
+// Builds (update = false, from settingsText) or updates in place (update = true: the report on
+// updateSheet, with settingsText when given (the panel's edits), else its own settings and
+// settings cells) a report; returns the status line. Throws lintel::InputError.
 // Progress goes to `progress` when given, else to the document window's status bar; it is
 // ended however the build ends.
 std::string buildReport(const com::sun::star::uno::Reference<com::sun::star::sheet::XSpreadsheetDocument>& doc,
                         const std::string& settingsText, bool update, const std::string& updateSheet,
                         const com::sun::star::uno::Reference<com::sun::star::task::XStatusIndicator>& progress = {});
+
+// The settings of the report on a sheet, as the panel shows them: from the report's record
+// with the settings cells as the user left them (base date, band level, frequency), or from
+// an earlier version's stored settings; nullopt when the sheet is no Lintel report.
+std::optional<report::ReportSettings> reportSettingsOnSheet(
+    const com::sun::star::uno::Reference<com::sun::star::sheet::XSpreadsheetDocument>& doc, const std::string& sheet);
 
 // The settings text stored in the document for a report sheet, or "".
 std::string loadReportSettings(const com::sun::star::uno::Reference<com::sun::star::sheet::XSpreadsheetDocument>& doc,

@@ -5,7 +5,7 @@
 // org.lintel.ReportBuilder job runs. The panel's state is kept in the document.
 #include <cppuhelper/implbase1.hxx>
 #include <cppuhelper/implbase2.hxx>
-#include <cppuhelper/implbase6.hxx>
+#include <cppuhelper/implbase7.hxx>
 #include <cppuhelper/supportsservice.hxx>
 
 #include <com/sun/star/accessibility/XAccessible.hpp>
@@ -33,6 +33,9 @@
 #include <com/sun/star/frame/XModel.hpp>
 #include <com/sun/star/lang/XComponent.hpp>
 #include <com/sun/star/lang/XServiceInfo.hpp>
+#include <com/sun/star/sheet/ActivationEvent.hpp>
+#include <com/sun/star/sheet/XActivationBroadcaster.hpp>
+#include <com/sun/star/sheet/XActivationEventListener.hpp>
 #include <com/sun/star/sheet/XArrayFormulaRange.hpp>
 #include <com/sun/star/sheet/XCellRangeAddressable.hpp>
 #include <com/sun/star/beans/XPropertySet.hpp>
@@ -89,8 +92,9 @@ Sequence<OUString> toSequence(const std::vector<std::string>& v) {
 }
 
 class ReportPanel
-    : public cppu::WeakImplHelper6<css::ui::XToolPanel, css::ui::XSidebarPanel, css::lang::XComponent,
-                                   css::awt::XActionListener, css::awt::XItemListener, css::awt::XWindowListener> {
+    : public cppu::WeakImplHelper7<css::ui::XToolPanel, css::ui::XSidebarPanel, css::lang::XComponent,
+                                   css::awt::XActionListener, css::awt::XItemListener, css::awt::XWindowListener,
+                                   css::sheet::XActivationEventListener> {
 public:
     ReportPanel(const Reference<css::uno::XComponentContext>& ctx, const Reference<css::frame::XFrame>& frame,
                 const Reference<css::awt::XWindow>& parent)
@@ -115,12 +119,14 @@ public:
         for (const char* l : {"lstSegCol", "lstSegVal", "lstOptMethod", "lstFreq"})
             list(l)->addItemListener(this);
         parent_->addWindowListener(this);
+        activation_.set(frame_->getController(), UNO_QUERY);
+        if (activation_.is()) activation_->addActivationEventListener(this);
         naturalWidth_ = window_->getPosSize().Width;  // the layout's width in pixels
         const css::awt::Rectangle r = parent_->getPosSize();
         window_->setPosSize(0, 0, r.Width, window_->getPosSize().Height, css::awt::PosSize::POSSIZE);
         window_->setVisible(true);
         try {
-            loadState();
+            if (!showActiveReport()) loadState();
         } catch (const std::exception& e) {
             status(std::string("Lintel: ") + e.what());
         } catch (const css::uno::Exception& e) {
@@ -145,6 +151,11 @@ public:
     // XComponent
     void SAL_CALL dispose() override {
         if (parent_.is()) parent_->removeWindowListener(this);
+        try {
+            if (activation_.is()) activation_->removeActivationEventListener(this);
+        } catch (...) {
+        }
+        activation_.clear();
         Reference<css::lang::XComponent> c(window_, UNO_QUERY);
         if (c.is()) c->dispose();
         window_.clear();
@@ -164,6 +175,11 @@ public:
     void SAL_CALL windowMoved(const css::awt::WindowEvent&) override {}
     void SAL_CALL windowShown(const css::lang::EventObject&) override {}
     void SAL_CALL windowHidden(const css::lang::EventObject&) override {}
+
+    // XActivationEventListener: another sheet became active; a report sheet shows its settings.
+    void SAL_CALL activeSpreadsheetChanged(const css::sheet::ActivationEvent&) override {
+        guarded([&] { showActiveReport(); });
+    }
 
     // XActionListener: the buttons.
     void SAL_CALL actionPerformed(const css::awt::ActionEvent& e) override {
@@ -282,6 +298,24 @@ private:
             for (const auto& h : headers_)
                 if (lower(h).find(w) != std::string::npos) return h;
         return {};
+    }
+
+    // When the active sheet is a Lintel report, the panel shows its settings (Update report
+    // then applies the panel's edits to it). Returns whether it did.
+    bool showActiveReport() {
+        Reference<css::sheet::XSpreadsheetView> view(frame_->getController(), UNO_QUERY);
+        if (!view.is() || !view->getActiveSheet().is()) return false;
+        const std::string sheet = utf8(Reference<css::container::XNamed>(view->getActiveSheet(), UNO_QUERY_THROW)->getName());
+        const auto s = reportSettingsOnSheet(document(), sheet);
+        if (!s) {
+            reportSheet_.clear();
+            return false;
+        }
+        settings_ = *s;
+        reportSheet_ = sheet;
+        if (!settings_.dataRange.empty()) readData(settings_.dataRange, false);
+        status(fmt::format("Report \"{}\": its settings are shown; edit them and press Update report.", sheet));
+        return true;
     }
 
     void loadState() {
@@ -463,9 +497,18 @@ private:
         if (update) {
             Reference<css::sheet::XSpreadsheetView> view(frame_->getController(), UNO_QUERY_THROW);
             const std::string sheet = utf8(Reference<css::container::XNamed>(view->getActiveSheet(), UNO_QUERY_THROW)->getName());
-            result = buildReport(doc, {}, true, sheet);
+            // The panel shows this report's settings (possibly edited): they are applied.
+            std::string text;
+            if (sheet == reportSheet_ && !settings_.dataRange.empty()) {
+                collect();
+                settings_.sheetName = sheet;
+                text = settings_.serialize();
+            }
+            result = buildReport(doc, text, true, sheet);
         } else {
             collect();
+            settings_.sheetName.clear();  // a new report is named after its segment
+            settings_.reportId.clear();
             const std::string text = settings_.serialize();
             result = buildReport(doc, text, false, {});
             storeDocumentText(doc, kPanelStateKey, text);
@@ -524,6 +567,8 @@ private:
     report::SheetData data_;
     std::vector<std::string> headers_;
     std::string segmentColumn_;
+    std::string reportSheet_;  // the report sheet whose settings the panel shows, or ""
+    Reference<css::sheet::XActivationBroadcaster> activation_;
     std::vector<std::string> segmentValues_;
     report::Method optionsMethod_ = report::Method::Median;
     bool filling_ = false;
