@@ -214,7 +214,8 @@ SalesCheck checkSales(const SalesCheckInput& in, const SalesCheckOptions& o) {
                 serial = t.serial;
             } else {
                 const SaleProblem p = dateProblem(t.status);
-                list(i, o.datesName, p, shown(d, true), t.message);
+                list(i, o.datesName, p, shown(d, true),
+                     p == SaleProblem::BlankDate ? "no date: the sale cannot be placed in a period" : t.message);
                 if (ok) dropFor[i] = p;
                 ok = false;
             }
@@ -252,6 +253,7 @@ SalesCheck checkSales(const SalesCheckInput& in, const SalesCheckOptions& o) {
             price = kNaN;
         }
         if (std::isnan(price)) {
+            if (priceProblem == SaleProblem::BlankPrice) priceDetail = "no price (a dash or an empty cell)";
             list(i, o.pricesName, priceProblem, shown(p, false), priceDetail);
             if (ok) dropFor[i] = priceProblem;
             ok = false;
