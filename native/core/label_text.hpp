@@ -6,7 +6,8 @@
 // mapping through ICU (full case folding, so "STRASSE" and "Straße" match; compatibility
 // forms, so a full-width "Ｎｏｒｔｈ" matches "north"; invisible format characters dropped).
 // NFKC_Casefold is Unicode's mapping for caseless matching of identifiers (Unicode Standard,
-// section 3.13, and the DerivedNormalizationProps data file).
+// section 3.13, and the DerivedNormalizationProps data file). The folding is the default,
+// not the Turkish one: "ÇAMLIK" folds to "çamlik", which differs from "çamlık" (dotless ı).
 //
 // The display form of a group of labels is its most frequent spelling after trimming and
 // collapsing blanks (case and accents kept); a tie goes to the spelling seen first. A report
