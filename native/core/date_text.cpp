@@ -288,8 +288,12 @@ DateOrder dateOrderForLocale(std::string_view language, std::string_view country
                                              "PH", "FM", "MH", "PW"};
     static const char* const yearFirst[] = {"CN", "TW", "JP", "KR", "KP", "MN", "HU", "LT",
                                             "LV", "SE", "IR", "BT", "CA"};
-    static const char* const yearFirstLanguages[] = {"zh", "ja", "ko", "mn", "hu", "lt",
-                                                     "lv", "sv", "fa", "dz"};
+    static const char* const yearFirstLanguages[] = {"zh", "yue", "ja", "ko", "mn", "hu", "lt", "lv",
+                                                     "fa", "dz", "eu", "si", "ne", "my"};
+    // A language that writes the year first does so in every country (Chinese in Hong Kong
+    // and Singapore, Basque in Spain and France).
+    for (const char* l : yearFirstLanguages)
+        if (lang == l) return DateOrder::YearMonthDay;
     if (!ctry.empty()) {
         for (const char* c : monthFirst)
             if (ctry == c) return DateOrder::MonthDayYear;
@@ -299,8 +303,7 @@ DateOrder dateOrderForLocale(std::string_view language, std::string_view country
     }
     if (lang.empty() || lang == "en") return DateOrder::Unknown;
     if (lang == "fil" || lang == "tl") return DateOrder::MonthDayYear;
-    for (const char* l : yearFirstLanguages)
-        if (lang == l) return DateOrder::YearMonthDay;
+    if (lang == "sv") return DateOrder::YearMonthDay;  // Sweden; Swedish in Finland: day first
     return DateOrder::DayMonthYear;
 }
 

@@ -44,12 +44,13 @@ std::optional<DateOrder> parseDateOrder(std::string_view text);
 
 // The usual order of dates written with numbers in a country (common practice, no source;
 // checked against the C library's locale data in tests/reference). language and country
-// are ISO 639 / ISO 3166 codes in any case ("en", "US"); either may be empty. Month first:
-// the United States and its territories, the Philippines, Micronesia, the Marshall Islands,
-// Palau. Year first: China, Taiwan, Japan, both Koreas, Mongolia, Hungary, Lithuania,
-// Latvia, Sweden, Iran, Bhutan, Canada (where day/month and month/day are both common). Day
-// first everywhere else. Without a country: Unknown for English (US or GB?), the language's
-// usual order otherwise.
+// are ISO 639 / ISO 3166 codes in any case ("en", "US"); either may be empty. Year first:
+// Chinese, Cantonese, Japanese, Korean, Mongolian, Hungarian, Lithuanian, Latvian, Persian, Dzongkha, Basque, Sinhala, Nepali and Burmese in any country, and China, Taiwan,
+// Japan, both Koreas, Mongolia, Hungary, Lithuania, Latvia, Sweden, Iran, Bhutan and Canada
+// (where day/month and month/day are both common). Month first: the United States and its
+// territories, the Philippines, Micronesia, the Marshall Islands, Palau. Day first
+// everywhere else. Without a country: Unknown for English (US or GB?), the language's usual
+// order otherwise (Swedish alone: year first).
 DateOrder dateOrderForLocale(std::string_view language, std::string_view country);
 // The same for a BCP-47 tag or a POSIX locale name: "en-US", "en_GB", "de", "zh-Hant-TW",
 // "sr-Latn-RS", "fr_CA.UTF-8".
