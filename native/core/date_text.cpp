@@ -393,25 +393,26 @@ std::string acceptedDateForms(DateOrder order) {
 DateText readDateText(std::string_view raw, DateOrder order) {
     if (text::trim(raw).empty()) return {};
     const Parts p = parseParts(raw);
-    const std::string q = quoted(raw);
-    const std::string accepted = acceptedDateForms(order);
+    // Messages are built only on failure (most texts of a column read fine).
+    const auto q = [&] { return quoted(raw); };
+    const auto accepted = [&] { return acceptedDateForms(order); };
     switch (p.kind) {
         case Parts::Unreadable:
             return failed(DateTextStatus::Unreadable,
-                          fmt::format("{} is not a date we can read; {}", q, accepted));
+                          fmt::format("{} is not a date we can read; {}", q(), accepted()));
         case Parts::TwoDigitYear:
             return failed(DateTextStatus::TwoDigitYear,
                           fmt::format("{} has a two-digit year: write the year with four digits; {}",
-                                      q, accepted));
+                                      q(), accepted()));
         case Parts::Full: {
             if (p.year < 1000)
                 return failed(DateTextStatus::NoSuchDate,
-                              fmt::format("{}: the year {:04d} is not a year of sales; {}", q,
-                                          p.year, accepted));
+                              fmt::format("{}: the year {:04d} is not a year of sales; {}", q(),
+                                          p.year, accepted()));
             const std::string why = whyNoDate(p.year, p.month, p.day);
             if (!why.empty())
                 return failed(DateTextStatus::NoSuchDate,
-                              fmt::format("{} is not a calendar date ({}); {}", q, why, accepted));
+                              fmt::format("{} is not a calendar date ({}); {}", q(), why, accepted()));
             return okDate(p.year, p.month, p.day);
         }
         case Parts::YearLast: break;
@@ -419,19 +420,19 @@ DateText readDateText(std::string_view raw, DateOrder order) {
     const int y = p.year;
     if (y < 1000)
         return failed(DateTextStatus::NoSuchDate,
-                      fmt::format("{}: the year {:04d} is not a year of sales; {}", q, y, accepted));
+                      fmt::format("{}: the year {:04d} is not a year of sales; {}", q(), y, accepted()));
     // first/second are day/month or month/day.
     const bool asDmy = isDate(y, p.second, p.first), asMdy = isDate(y, p.first, p.second);
     const auto wrongOrder = [&](DateOrder want) {
         const bool dmy = want == DateOrder::DayMonthYear;
         const int m = dmy ? p.second : p.first, d = dmy ? p.first : p.second;
-        std::string msg = fmt::format("{} is not a date in {} order ({})", q, dateOrderName(want),
+        std::string msg = fmt::format("{} is not a date in {} order ({})", q(), dateOrderName(want),
                                       whyNoDate(y, m, d));
         if (dmy ? asMdy : asDmy)
             msg += fmt::format("; as {} it would be {}: check the date order",
                                dateOrderName(dmy ? DateOrder::MonthDayYear : DateOrder::DayMonthYear),
                                longDate(y, d, m));
-        return failed(DateTextStatus::NoSuchDate, fmt::format("{}; {}", msg, accepted));
+        return failed(DateTextStatus::NoSuchDate, fmt::format("{}; {}", msg, accepted()));
     };
     if (order == DateOrder::DayMonthYear)
         return asDmy ? okDate(y, p.second, p.first) : wrongOrder(DateOrder::DayMonthYear);
@@ -445,8 +446,8 @@ DateText readDateText(std::string_view raw, DateOrder order) {
                       fmt::format("{} could be {} (day/month/year) or {} (month/day/year): set the "
                                   "date order (dateorder=DMY or MDY) or write the date as "
                                   "YYYY-MM-DD; {}",
-                                  q, longDate(y, p.second, p.first), longDate(y, p.first, p.second),
-                                  accepted));
+                                  q(), longDate(y, p.second, p.first), longDate(y, p.first, p.second),
+                                  accepted()));
     }
     if (asDmy) return okDate(y, p.second, p.first);
     if (asMdy) return okDate(y, p.first, p.second);
@@ -455,7 +456,7 @@ DateText readDateText(std::string_view raw, DateOrder order) {
     return failed(DateTextStatus::NoSuchDate,
                   fmt::format("{} is not a calendar date (as day/month/year: {}; as "
                               "month/day/year: {}); {}",
-                              q, whyDmy, whyMdy, accepted));
+                              q(), whyDmy, whyMdy, accepted()));
 }
 
 double dateFromText(std::string_view raw, DateOrder order, std::string_view what) {

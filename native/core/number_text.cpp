@@ -195,11 +195,12 @@ std::string acceptedNumberForms(const NumberFormat& f) {
 NumberText readNumberText(std::string_view raw, const NumberFormat& f) {
     U32 s = decode(text::trim(raw));
     if (s.empty() || s == U"-" || s == U"\u2013" || s == U"\u2014") return {};
-    const std::string q = quoted(raw);
-    const std::string accepted = acceptedNumberForms(f);
+    // Messages are built only on failure (most texts of a column read fine).
+    const auto q = [&] { return quoted(raw); };
+    const auto accepted = [&] { return acceptedNumberForms(f); };
     const auto unreadable = [&](const std::string& why) {
         return fail(NumberTextStatus::Unreadable,
-                    fmt::format("{} is not a number we can read ({}); {}", q, why, accepted));
+                    fmt::format("{} is not a number we can read ({}); {}", q(), why, accepted()));
     };
 
     bool negative = false;
@@ -284,9 +285,9 @@ NumberText readNumberText(std::string_view raw, const NumberFormat& f) {
             return fail(NumberTextStatus::Unreadable,
                         fmt::format("{} has a misplaced thousands separator {} (it goes between "
                                     "groups of three digits, as in 1{}500); {}",
-                                    q, describe(seps[0]),
+                                    q(), describe(seps[0]),
                                     seps[0] == ',' || seps[0] == '.' ? encode(U32(1, seps[0])) : " ",
-                                    accepted));
+                                    accepted()));
     }
     // Ambiguous: one "." or "," as the decimal separator, 1-3 integer digits (not a leading
     // zero) and exactly three decimals: thousands under the other convention.
@@ -301,8 +302,8 @@ NumberText readNumberText(std::string_view raw, const NumberFormat& f) {
                                 "document writes numbers) or {}{} with {} as a thousands "
                                 "separator; write it without the separator ({}{}) or with "
                                 "fewer decimals; {}",
-                                q, small, describe(dec), whole, frac, describe(dec), whole, frac,
-                                accepted));
+                                q(), small, describe(dec), whole, frac, describe(dec), whole, frac,
+                                accepted()));
     }
 
     std::string ascii = negative ? "-" : "";

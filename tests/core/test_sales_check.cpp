@@ -8,8 +8,10 @@
 #include <boost/test/unit_test.hpp>
 
 #include <cmath>
+#include <random>
 
 #include "diagnostics.hpp"
+#include "label_text.hpp"
 #include "periods.hpp"
 #include "price_outliers.hpp"
 #include "sale_duplicates.hpp"
@@ -277,6 +279,53 @@ BOOST_AUTO_TEST_CASE(input_errors) {
     // An empty table is no error: nothing to list.
     const SalesCheck r = checkSales(SalesCheckInput{}, defaults);
     BOOST_TEST(r.problems.empty());
+}
+
+BOOST_AUTO_TEST_CASE(random_texts) {
+    // Random texts from fragments exports contain (and broken UTF-8): the readers never throw,
+    // a reading is a finite value, a refusal always says what is accepted, and label keys
+    // are stable (NFKC_Casefold is idempotent by its definition).
+    const std::vector<std::string> parts = {
+        "0", "1", "2", "3", "12", "31", "2024", "1999", "/", ".", "-", ",", " ", "\xC2\xA0",
+        "\xE2\x80\xAF", "'", "$", "\xE2\x82\xAC", "EUR", "Mar", "march", "T", ":", "PM", "(", ")",
+        "\xFF", "\xC3", "\xC3\xA9", "\xC4\xB1", "\xC3\x9F", "Z", "+01:00", "\xE2\x80\x8B"};
+    std::mt19937 rng(20241215);
+    NumberFormat comma;
+    comma.decimal = ",";
+    comma.group = ".";
+    NumberFormat space;
+    space.decimal = ",";
+    space.group = "\xE2\x80\xAF";
+    SalesCheckInput in;
+    for (int round = 0; round < 20000; ++round) {
+        std::string t;
+        const int n = static_cast<int>(rng() % 12);
+        for (int k = 0; k < n; ++k) t += parts[rng() % parts.size()];
+        for (DateOrder o : {DateOrder::Unknown, DateOrder::DayMonthYear, DateOrder::MonthDayYear,
+                            DateOrder::YearMonthDay}) {
+            const DateText d = readDateText(t, o);
+            if (d.ok()) BOOST_REQUIRE(isUsableSerial(d.serial));
+            else if (d.status != DateTextStatus::Blank) BOOST_REQUIRE(has(d.message, "accepted: "));
+        }
+        for (const NumberFormat& f : {NumberFormat{}, comma, space}) {
+            const NumberText x = readNumberText(t, f);
+            if (x.ok()) BOOST_REQUIRE(std::isfinite(x.value));
+            else if (x.status != NumberTextStatus::Blank) BOOST_REQUIRE(has(x.message, "accepted: "));
+        }
+        const std::string key = labelKey(t);
+        BOOST_REQUIRE(labelKey(key) == key);
+        if (round < 2000) {
+            in.dates.push_back(RawValue::of(t));
+            in.prices.push_back(RawValue::of(t));
+            in.ids.push_back(RawValue::of(t));
+        }
+    }
+    SalesCheckOptions o;
+    o.outliers.minGroup = 3;
+    const SalesCheck r = checkSales(in, o);
+    BOOST_TEST(r.diagnostics.rowsIn == 2000u);
+    for (std::size_t i = 0; i < r.used.size(); ++i)
+        if (r.used[i]) BOOST_REQUIRE((std::isfinite(r.date[i]) && r.price[i] > 0));
 }
 
 BOOST_AUTO_TEST_SUITE_END()
