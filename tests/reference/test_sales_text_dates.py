@@ -1,7 +1,7 @@
 """Dates written as text (native/core/date_text.hpp) against Python's datetime.strptime and
 pandas.to_datetime (python3-pandas) on the same texts.
 
-Generating model (test data): 4,000 (year, month, day) triples, year uniform 1995..2030,
+Generating model (test data): 2,500 (year, month, day) triples, year uniform 1995..2030,
 month uniform 1..12 (5 % of them 13), day uniform 1..31 (so about 1 in 30 is no calendar
 date: 31 April, 30 February, 29 February of common years), each written in one of these
 forms chosen at random: ISO year-first with -, / or . and optional zero padding;
@@ -75,7 +75,7 @@ def make_text(y, m, d):
 
 
 texts = []
-for _ in range(4000):
+for _ in range(2500):
     y = int(rng.integers(1995, 2031))
     m = int(rng.integers(1, 13)) if rng.random() > 0.05 else 13
     d = int(rng.integers(1, 32))
@@ -196,7 +196,7 @@ for order in ["DMY", "MDY", "auto"]:
     print(f"    {order} vs pandas: {tally}")
     checks.true(f"{order}: pandas.to_datetime(dayfirst={dayfirst}) gives our date for every text we read "
                 "(but year-first texts it reads as year/day/month)",
-                tally["pandas refuses what we read"] == 0 and tally["other"] == 0 and tally["agree"] > 2000,
+                tally["pandas refuses what we read"] == 0 and tally["other"] == 0 and tally["agree"] > 1200,
                 str(tally))
     checks.true(f"{order}: where pandas reads what we refuse, it is a documented case",
                 tally["two-digit year"] > 0 and tally["other order"] > 0 and tally["no full date"] == len(LENIENT),
