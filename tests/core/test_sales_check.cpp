@@ -60,11 +60,26 @@ BOOST_AUTO_TEST_CASE(outlier_groups) {
     std::vector<double> logs;
     for (std::size_t i = 0; i < 11; ++i) logs.push_back(std::log(price[i]));
     BOOST_TEST(r.z[10] == modifiedZScores(logs)[10], boost::test_tools::tolerance(1e-12));
+    const auto message = [&](const OutlierOptions& bad) {
+        try {
+            findPriceOutliers(price, group, bad);
+        } catch (const InputError& e) {
+            return std::string(e.what());
+        }
+        return std::string("no error");
+    };
     o.minGroup = 2;
-    BOOST_CHECK_THROW(findPriceOutliers(price, group, o), InputError);
+    BOOST_TEST(message(o) == "the smallest group tested for outliers must have at least 3 sales, got 2");
     o.minGroup = 10;
     o.threshold = 0;
-    BOOST_CHECK_THROW(findPriceOutliers(price, group, o), InputError);
+    BOOST_TEST(message(o) == "the outlier threshold must be a positive number, got 0");
+    o.threshold = 3.5;
+    try {
+        findPriceOutliers(price, std::vector<long>(3, 0), o);
+        BOOST_FAIL("no error");
+    } catch (const InputError& e) {
+        BOOST_TEST(std::string(e.what()) == "prices has 16 rows, groups has 3");
+    }
 }
 
 BOOST_AUTO_TEST_CASE(duplicates) {
@@ -84,6 +99,12 @@ BOOST_AUTO_TEST_CASE(duplicates) {
     BOOST_TEST(d.duplicates == 1u);
     BOOST_TEST(d.conflictRows == 2u);
     BOOST_TEST(d.conflictGroups == 1u);
+    try {
+        findDuplicateSales(ids, {1.0}, prices);
+        BOOST_FAIL("no error");
+    } catch (const InputError& e) {
+        BOOST_TEST(std::string(e.what()) == "ids has 10 rows, dates 1, prices 10");
+    }
 }
 
 BOOST_AUTO_TEST_CASE(problem_texts) {
@@ -246,6 +267,22 @@ BOOST_AUTO_TEST_CASE(date_order_from_column_and_warnings) {
     r = checkSales(in, o);
     BOOST_TEST(r.count(SaleProblem::NoSuchDate) == 1u);
     BOOST_TEST(has(r.diagnostics.warnings.at(0), "1 dates can only be read as day/month/year (first: row 2) but the date order is month/day/year"));
+    // The reverse: day/month/year stated, the column reads only as month/day/year.
+    SalesCheckInput us;
+    us.dates = {txt("12/25/2024")};
+    us.prices = {num(100)};
+    SalesCheckOptions dmy;
+    dmy.read.dateOrder = DateOrder::DayMonthYear;
+    r = checkSales(us, dmy);
+    BOOST_TEST(r.diagnostics.warnings.at(0) == "1 dates can only be read as month/day/year (first: row 1) but the "
+                                               "date order is day/month/year: check the date order");
+    // Groups too small for the outlier test are reported.
+    BOOST_TEST(r.diagnostics.warnings.size() == 1u);  // no used row: no group
+    us.dates = {txt("2024-12-25"), txt("2024-12-26")};
+    us.prices = {num(100), num(200)};
+    r = checkSales(us, dmy);
+    BOOST_TEST(r.diagnostics.warnings.at(0) == "2 sales in 1 period-and-segment groups of fewer than 10 sales "
+                                               "were not tested for outliers");
     // Mixed column.
     in.dates.push_back(txt("12/25/2024"));
     in.prices.push_back(num(100));
@@ -270,12 +307,24 @@ BOOST_AUTO_TEST_CASE(input_errors) {
     in.ids = {txt("a")};
     BOOST_CHECK_THROW(checkSales(in, defaults), InputError);
     in.ids.clear();
+    const auto message = [&](const SalesCheckOptions& bad) {
+        try {
+            checkSales(in, bad);
+        } catch (const InputError& e) {
+            return std::string(e.what());
+        }
+        return std::string("no error");
+    };
     SalesCheckOptions year;
     year.read.currentYear = 50;
-    BOOST_CHECK_THROW(checkSales(in, year), InputError);
+    BOOST_TEST(message(year) == "the current year must lie within 1900..9998, got 50");
     SalesCheckOptions first;
     first.firstRowNumber = 0;
-    BOOST_CHECK_THROW(checkSales(in, first), InputError);
+    BOOST_TEST(message(first) == "the first row number must be at least 1");
+    SalesCheckOptions separators;
+    separators.read.numbers.decimal = ",";
+    separators.read.numbers.group = ",";
+    BOOST_TEST(message(separators) == "the decimal and thousands separators are both \",\"");
     // An empty table is no error: nothing to list.
     const SalesCheck r = checkSales(SalesCheckInput{}, defaults);
     BOOST_TEST(r.problems.empty());
