@@ -8,6 +8,7 @@
 #include <fmt/format.h>
 
 #include "diagnostics.hpp"
+#include "text_keys.hpp"
 
 namespace lintel::addin {
 
@@ -94,7 +95,7 @@ char cellFlag(const Cell& c) {
 }
 
 std::string cellKey(const Cell& c) {
-    if (c.isNumber()) return fmt::format("{}", c.number == 0 ? 0.0 : c.number);  // -0 -> "0"
+    if (c.isNumber()) return keyText(c.number);  // the core's rule: -0 and 0 are "0"
     if (c.isText()) return c.text;
     return {};
 }

@@ -4,14 +4,12 @@
 #include <cctype>
 #include <string>
 
+#include "text_keys.hpp"
+
 namespace lintel::addin {
 
-inline std::string trim(const std::string& s) {
-    std::size_t a = 0, b = s.size();
-    while (a < b && std::isspace(static_cast<unsigned char>(s[a]))) ++a;
-    while (b > a && std::isspace(static_cast<unsigned char>(s[b - 1]))) --b;
-    return s.substr(a, b - a);
-}
+// The core's trim (trimBlanks), as a string.
+inline std::string trim(const std::string& s) { return std::string(trimBlanks(s)); }
 
 inline std::string lower(std::string s) {
     for (char& c : s) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));

@@ -9,14 +9,13 @@
 #include <Eigen/Dense>
 #include <fmt/format.h>
 
-#include "raw_index.hpp"
+#include "statistics.hpp"
+#include "text_keys.hpp"
 
 namespace lintel {
 
 // ---------------------------------------------------------------------------------------
 // Column conversion helpers (shared with the add-in).
-
-std::string levelText(double x) { return fmt::format("{}", x); }
 
 CharacteristicColumn classifyColumn(std::string name, const std::vector<double>& numbers,
                                     const std::vector<std::string>& texts) {
@@ -42,7 +41,7 @@ CharacteristicColumn classifyColumn(std::string name, const std::vector<double>&
     } else {
         c.text.resize(n);
         for (std::size_t i = 0; i < n; ++i)
-            c.text[i] = std::isfinite(num(i)) ? levelText(num(i)) : txt(i);
+            c.text[i] = std::isfinite(num(i)) ? keyText(num(i)) : txt(i);
     }
     return c;
 }
@@ -259,7 +258,7 @@ Design buildDesign(const HedonicInput& in, const HedonicOptions& o) {
                 for (auto& [v, idx] : seen) {
                     idx = k++;
                     col.levelNumbers.push_back(v);
-                    col.levels.push_back(levelText(v));
+                    col.levels.push_back(keyText(v));
                 }
                 for (std::size_t r = 0; r < m; ++r)
                     col.code[r] = seen.at(c.numeric[D.inputRow[r]]);
@@ -374,7 +373,7 @@ struct WindowFit {
     }
     MatrixXd Vb() const { return hc ? MatrixXd(hcScale * Vm) : MatrixXd(s2 * Ainv); }
     double quantile(double level) const {
-        return df > 0 ? stats::studentTQuantile(0.5 + level / 2, df) : kNoValue;
+        return df > 0 ? stats::tCritical(level, df) : kNoValue;
     }
 };
 
@@ -831,7 +830,7 @@ IndexResult hedonicIndex(const HedonicInput& input, const HedonicOptions& o) {
         const bool bandable = t != b || C.fits[C.window[b]].df > 0;
         if (bandable && std::isfinite(v) && df > 0) {
             const double q =
-                std::isinf(df) ? 0.0 : stats::studentTQuantile(0.5 + o.level / 2, df);
+                std::isinf(df) ? 0.0 : stats::tCritical(o.level, df);
             const double h = q * std::sqrt(v);
             tb.lower[t] = 100.0 * std::exp(delta - h);
             tb.upper[t] = 100.0 * std::exp(delta + h);
@@ -982,9 +981,9 @@ RefHomeResult referenceHomeValue(const HedonicInput& input, const HomeInput& hom
                             txt));
                     for (std::size_t k = 0; k < col.levelNumbers.size(); ++k)
                         if (col.levelNumbers[k] == num) level = static_cast<int>(k);
-                    key = levelText(num);
+                    key = keyText(num);
                 } else {
-                    key = std::isfinite(num) ? levelText(num) : txt;
+                    key = std::isfinite(num) ? keyText(num) : txt;
                     for (std::size_t k = 0; k < col.levels.size(); ++k)
                         if (col.levels[k] == key) level = static_cast<int>(k);
                 }

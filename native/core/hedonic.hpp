@@ -62,11 +62,9 @@ struct HedonicInput {
 // place. numbers[i]: the cell's number, NaN if it holds no number; texts[i]: the cell's text,
 // "" if it holds a number or is blank. The column is numeric when more than half of its
 // non-blank cells are numbers (its text cells are then invalid: NaN); otherwise it is a text
-// column and its numbers become levels written as levelText(number).
+// column and its numbers become levels written as keyText(number) (text_keys.hpp).
 CharacteristicColumn classifyColumn(std::string name, const std::vector<double>& numbers,
                                     const std::vector<std::string>& texts);
-// A number written as a level: shortest round-trip form, "3", "2.5", "1e+20".
-std::string levelText(double x);
 
 enum class HedonicBias { None, Kennedy };
 enum class HedonicStdErr { Classical, HC1 };

@@ -47,11 +47,6 @@ namespace analytics {
 void countValues(const std::vector<double>& index, bool positiveOnly, Diagnostics& diag);
 // 100 ln(I_t / I_{t-lag}); kNoValue where an end is missing or not positive.
 std::vector<double> logChanges(const std::vector<double>& index, int lag);
-// Pearson correlation of the pairs (x_i, y_i) where both have a value; kNoValue when fewer
-// than 2 pairs or a side has no variation. pairs receives the number of pairs used.
-double pearson(const std::vector<double>& x, const std::vector<double>& y, std::size_t* pairs);
-// Sample standard deviation (n - 1) of the values present; kNoValue when fewer than 2.
-double sampleSd(const std::vector<double>& values, std::size_t* count);
 }  // namespace analytics
 
 // ---- INDEXVOLATILITY --------------------------------------------------------------------

@@ -4,6 +4,8 @@
 
 #include <fmt/format.h>
 
+#include "statistics.hpp"
+
 namespace lintel {
 
 CompareResult indexCompare(const CompareInput& in, const CompareOptions& o) {
@@ -32,7 +34,7 @@ CompareResult indexCompare(const CompareInput& in, const CompareOptions& o) {
             r.diag.warn(fmt::format("{}: no {} ({})", row.name, what, why));
         };
         std::size_t changes = 0;
-        row.volatility = analytics::sampleSd(analytics::logChanges(col, o.lag), &changes);
+        row.volatility = stats::sampleSd(analytics::logChanges(col, o.lag), &changes);
         if (hasValue(row.volatility) && o.annual)
             row.volatility *= std::sqrt(double(periodsPerYear(o.freq)) / o.lag);
         if (!hasValue(row.volatility)) note("volatility", "fewer than 2 changes");

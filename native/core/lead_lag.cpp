@@ -4,6 +4,8 @@
 
 #include <fmt/format.h>
 
+#include "statistics.hpp"
+
 namespace lintel {
 
 namespace {
@@ -57,7 +59,7 @@ LeadLagResult leadLagOrEmpty(const LeadLagInput& in, const LeadLagOptions& o) {
         }
         LeadLagRow row;
         row.lag = lag;
-        const double c = analytics::pearson(x, y, &row.pairs);
+        const double c = stats::pearson(x, y, &row.pairs);
         if (row.pairs >= o.minPairs) row.corr = c;
         if (hasValue(row.corr)) {
             const bool better =

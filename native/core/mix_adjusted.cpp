@@ -1,7 +1,6 @@
 #include "mix_adjusted.hpp"
 
 #include <algorithm>
-#include <cctype>
 #include <cmath>
 #include <cstdint>
 #include <limits>
@@ -11,7 +10,8 @@
 
 #include <fmt/format.h>
 
-#include "raw_index.hpp"
+#include "statistics.hpp"
+#include "text_keys.hpp"
 
 namespace lintel {
 
@@ -21,13 +21,6 @@ namespace {
 
 // Stratum-period cells held at most (memory guard against e.g. an id column as strata).
 constexpr std::size_t kMaxCells = 2000000;
-
-bool blankText(const std::string& s) {
-    return std::all_of(s.begin(), s.end(),
-                       [](char c) { return std::isspace(static_cast<unsigned char>(c)); });
-}
-
-long floorDiv(long a, long b) { return a / b - ((a % b != 0) && ((a < 0) != (b < 0))); }
 
 // Per stratum-period cells, flattened h * T + t.
 struct Cells {
@@ -135,7 +128,7 @@ void buildLevels(MixBuilder& b, const Cells& c, const PeriodAxis& axis,
         b.link(base, 0, c.T - 1, b.weights(base, base, base), 1.0);
     } else {
         const int p = periodsPerYear(o.freq);
-        auto yearOf = [&](int t) { return floorDiv(axis.firstKey + t, p); };
+        auto yearOf = [&](int t) { return yearOfKey(axis.firstKey + t, o.freq); };
         int first = -1;
         for (int t = 0; t < c.T && first < 0; ++t)
             if (hasValue(anyPrice[t])) first = t;
@@ -172,14 +165,6 @@ std::size_t draw(std::mt19937_64& g, std::size_t n) {
     return static_cast<std::size_t>(x % range);
 }
 
-// Linear-interpolation quantile of sorted values (numpy's default, "linear").
-double quantile(const std::vector<double>& sorted, double p) {
-    const double h = (sorted.size() - 1) * p;
-    const std::size_t lo = static_cast<std::size_t>(std::floor(h));
-    const std::size_t hi = std::min(lo + 1, sorted.size() - 1);
-    return sorted[lo] + (h - lo) * (sorted[hi] - sorted[lo]);
-}
-
 }  // namespace
 
 MixResult indexMix(const MixInput& in, const MixOptions& o) {
@@ -195,7 +180,7 @@ MixResult indexMix(const MixInput& in, const MixOptions& o) {
     std::vector<char> valid(n, 1);
     for (const auto& col : in.strata)
         for (std::size_t i = 0; i < n; ++i)
-            if (blankText(col[i])) valid[i] = 0;
+            if (isBlankText(col[i])) valid[i] = 0;
 
     MixResult r;
     const ScreenedSales s = screenSales(in.sales, o.freq, r.diag, &valid, kBlankStratum);
@@ -292,8 +277,8 @@ MixResult indexMix(const MixInput& in, const MixOptions& o) {
         for (int t = 0; t < c.T; ++t) {
             if (!hasValue(r.table.index[t]) || reps[t].size() < 2) continue;
             std::sort(reps[t].begin(), reps[t].end());
-            r.table.lower[t] = quantile(reps[t], (1 - o.level) / 2);
-            r.table.upper[t] = quantile(reps[t], (1 + o.level) / 2);
+            r.table.lower[t] = stats::quantile(reps[t], (1 - o.level) / 2);
+            r.table.upper[t] = stats::quantile(reps[t], (1 + o.level) / 2);
         }
     }
 

@@ -8,7 +8,7 @@
 #include <Eigen/Dense>
 #include <fmt/format.h>
 
-#include "raw_index.hpp"
+#include "statistics.hpp"
 #include "repeat_sales_internal.hpp"
 
 namespace lintel {
@@ -579,7 +579,6 @@ private:
         r_.logIndex.assign(T_, kNoValue);
         r_.logSe.assign(T_, kNoValue);
         r_.df.assign(T_, kNoValue);
-        const double z = 0.5 + o_.level / 2;
         for (int t = 0; t < T_; ++t) {
             if (!hasValue(lv.level[t])) continue;
             const double d = lv.level[t] - lv.level[b];
@@ -593,7 +592,7 @@ private:
             if (t == b) {  // the change from the base to itself is known exactly
                 tb.lower[t] = tb.upper[t] = 100.0;
             } else if (hasValue(var) && dof > 0) {
-                const double q = stats::studentTQuantile(z, dof);
+                const double q = stats::tCritical(o_.level, dof);
                 tb.lower[t] = 100.0 * std::exp(d - q * se);
                 tb.upper[t] = 100.0 * std::exp(d + q * se);
             }

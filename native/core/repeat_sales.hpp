@@ -44,19 +44,15 @@ const char* repeatSalesMethodCode(RepeatSalesMethod m);  // "cs", "bmn", "cs2"
 // Raw sales, one entry per spreadsheet row.
 struct RepeatSalesInput {
     // Property id as text; "" (or only blanks) = blank id: the row is dropped. Ids are compared
-    // after trimming leading and trailing blanks, case-sensitively. Numeric cells become text
-    // with propertyIdFromNumber (in the add-in's cell conversion), so 123 and "123" are one id.
+    // after trimming leading and trailing blanks (trimBlanks), case-sensitively. Numeric cells
+    // become text with keyText (text_keys.hpp; in the add-in's cell conversion), so 123 and
+    // "123" are one id.
     std::vector<std::string> id;
     SalesInput sales;            // date, price, include, emptyRow as for every index
     std::vector<char> changed;   // empty = no flags; else 1 = the property changed at this sale
                                  // (renovated, extended, rebuilt): the pair ending here is
                                  // dropped, the next pair starts from this sale
 };
-
-// Canonical text of a numeric id cell: the shortest text that reads back as the same number
-// ("123", "-7", "12.5", "1e+16"; fmt's "{}" form, as the add-in's cellKey), -0 as "0"; NaN
-// gives "" (blank id).
-std::string propertyIdFromNumber(double value);
 
 struct RepeatSalesOptions : IndexOptions {
     // IndexOptions: freq (default "M"), base (default: first period with a value), level

@@ -13,6 +13,7 @@
 #include <fmt/format.h>
 
 #include "repeat_sales_internal.hpp"
+#include "text_keys.hpp"
 
 namespace lintel {
 
@@ -20,13 +21,6 @@ namespace {
 
 using rs_detail::BuiltPairs;
 using rs_detail::SaleProblem;
-
-std::string_view trimmed(std::string_view s) {
-    std::size_t a = 0, b = s.size();
-    while (a < b && std::isspace(static_cast<unsigned char>(s[a]))) ++a;
-    while (b > a && std::isspace(static_cast<unsigned char>(s[b - 1]))) --b;
-    return s.substr(a, b - a);
-}
 
 // Why a row with a usable id and date was not usable (screenSales' order of checks).
 SaleProblem rowProblem(double price) {
@@ -45,17 +39,6 @@ const std::string& problemText(SaleProblem p) {
     }
     static const std::string none;
     return none;
-}
-
-// Period key of a civil date: the same numbering as periodKey (periods.hpp), from a date
-// already converted (each sale is converted once).
-long keyOf(const CivilDate& d, Frequency f) {
-    switch (f) {
-        case Frequency::Month: return static_cast<long>(d.year) * 12 + (d.month - 1);
-        case Frequency::Quarter: return static_cast<long>(d.year) * 4 + (d.month - 1) / 3;
-        case Frequency::Year: return d.year;
-    }
-    return 0;
 }
 
 // Civil dates of whole-day serials through a table over the span of the data (sales fall
@@ -152,8 +135,8 @@ std::size_t addPair(BuiltPairs& b, std::size_t rowA, std::size_t rowB, std::uint
         st = PairStatus::SecondSaleUnusable;
         b.problem.back() = probB;
     } else {
-        k1 = keyOf(ca, o.freq);
-        k2 = keyOf(cb, o.freq);
+        k1 = periodKey(ca, o.freq);
+        k2 = periodKey(cb, o.freq);
         st = filterPair(k1, k2, b.months.back(), rate, changed, o);
     }
     b.key1.push_back(k1);
@@ -166,7 +149,7 @@ std::size_t addPair(BuiltPairs& b, std::size_t rowA, std::size_t rowB, std::uint
 
 std::optional<RepeatSalesMethod> parseRepeatSalesMethod(std::string_view text) {
     std::string t;
-    for (char c : trimmed(text)) t += static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
+    for (char c : trimBlanks(text)) t += static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
     if (t == "cs") return RepeatSalesMethod::CaseShiller;
     if (t == "bmn") return RepeatSalesMethod::BaileyMuthNourse;
     if (t == "cs2") return RepeatSalesMethod::CaseShillerQuadratic;
@@ -180,13 +163,6 @@ const char* repeatSalesMethodCode(RepeatSalesMethod m) {
         case RepeatSalesMethod::CaseShillerQuadratic: return "cs2";
     }
     return "cs";
-}
-
-std::string propertyIdFromNumber(double v) {
-    if (!std::isfinite(v)) return "";
-    if (v == 0) return "0";  // -0 too
-    // Shortest round-trip form, the same as the add-in's cellKey for number cells.
-    return fmt::format("{}", v);
 }
 
 namespace rs_detail {
@@ -300,7 +276,7 @@ BuiltPairs buildPairsFromSales(const RepeatSalesInput& in, const RepeatSalesOpti
     std::vector<std::string_view> ids(n);
     std::vector<char> idValid(n);
     for (std::size_t i = 0; i < n; ++i) {
-        ids[i] = trimmed(in.id[i]);
+        ids[i] = trimBlanks(in.id[i]);
         idValid[i] = !ids[i].empty();
     }
     std::vector<char> usable(n, 0);
@@ -429,7 +405,7 @@ BuiltPairs buildPairsFromPairInput(const RepeatSalesPairInput& in, const RepeatS
     };
     if (!in.id.empty()) {
         out.ids.resize(n);
-        for (std::size_t i = 0; i < n; ++i) out.ids[i] = trimmed(in.id[i]);
+        for (std::size_t i = 0; i < n; ++i) out.ids[i] = trimBlanks(in.id[i]);
     }
     std::vector<double> days;
     days.reserve(2 * n);
@@ -456,7 +432,7 @@ BuiltPairs buildPairsFromPairInput(const RepeatSalesPairInput& in, const RepeatS
         addPair(out, i, i, static_cast<std::uint32_t>(in.id.empty() ? 0 : i), a, b, ca, cb, p1,
                 p2, problem(d1, p1), problem(d2, p2), false, o);
         if (ok1 && ok2 && out.problem.back() == SaleProblem::None) {
-            const long k1 = keyOf(ca, o.freq), k2 = keyOf(cb, o.freq);
+            const long k1 = periodKey(ca, o.freq), k2 = periodKey(cb, o.freq);
             if (!any) {
                 minKey = k1;
                 maxKey = k2;

@@ -44,7 +44,7 @@ Frequency resolveFrequency(const std::vector<double>& periods, const std::option
         long prev = 0;
         for (std::size_t i = 0; i < periods.size(); ++i) {
             const long k = periodKey(periods[i], *f);
-            if (periodStartOfKey(k, *f) != std::floor(periods[i]) || (i > 0 && k <= prev))
+            if (!isPeriodStart(periods[i], *f) || (i > 0 && k <= prev))
                 throw InputError(fmt::format(
                     "periods row {} is not the start of a new {} period (freq {})", i + 1,
                     *f == Frequency::Month ? "month" : *f == Frequency::Quarter ? "quarter" : "year",

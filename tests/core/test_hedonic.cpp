@@ -17,6 +17,7 @@
 #include <vector>
 
 #include "hedonic.hpp"
+#include "text_keys.hpp"
 
 using namespace lintel;
 
@@ -141,7 +142,7 @@ BOOST_AUTO_TEST_CASE(numeric_column_as_categories) {
     int levels = 0;
     double ref = -1;
     for (double k = 1; k <= 4; ++k) {
-        const HedonicTerm* t = findTerm(f, "rooms=" + levelText(k));
+        const HedonicTerm* t = findTerm(f, "rooms=" + keyText(k));
         if (t) ++levels;
         else ref = k;
     }
@@ -149,7 +150,7 @@ BOOST_AUTO_TEST_CASE(numeric_column_as_categories) {
     BOOST_REQUIRE(ref > 0);
     for (double k = 1; k <= 4; ++k)
         if (k != ref)
-            BOOST_TEST(findTerm(f, "rooms=" + levelText(k))->coefficient == 0.05 * (k - ref),
+            BOOST_TEST(findTerm(f, "rooms=" + keyText(k))->coefficient == 0.05 * (k - ref),
                        boost::test_tools::tolerance(1e-8));
     BOOST_TEST(!findTerm(f, "rooms"));
 }
@@ -463,8 +464,8 @@ BOOST_AUTO_TEST_CASE(classify_column_rule) {
     BOOST_TEST(b.numeric.empty());
     BOOST_TEST(b.text[1] == "3");
     BOOST_TEST(b.text[3] == "");
-    BOOST_TEST(levelText(2.5) == "2.5");
-    BOOST_TEST(levelText(4.0) == "4");
+    BOOST_TEST(keyText(2.5) == "2.5");
+    BOOST_TEST(keyText(4.0) == "4");
 }
 
 BOOST_AUTO_TEST_CASE(reference_level_ties_go_to_the_first_sorted_level) {

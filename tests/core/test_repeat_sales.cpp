@@ -9,6 +9,7 @@
 #include <string>
 
 #include "repeat_sales.hpp"
+#include "text_keys.hpp"
 
 using namespace lintel;
 
@@ -253,15 +254,15 @@ BOOST_AUTO_TEST_CASE(every_filter_and_reason) {
 }
 
 BOOST_AUTO_TEST_CASE(ids_as_text_and_numbers) {
-    BOOST_TEST(propertyIdFromNumber(123.0) == "123");
-    BOOST_TEST(propertyIdFromNumber(-7.0) == "-7");
-    BOOST_TEST(propertyIdFromNumber(0.0) == "0");
-    BOOST_TEST(propertyIdFromNumber(-0.0) == "0");
-    BOOST_TEST(propertyIdFromNumber(12.5) == "12.5");
-    BOOST_TEST(propertyIdFromNumber(123456789012345.0) == "123456789012345");
-    BOOST_TEST(propertyIdFromNumber(1e6) == "1000000");
-    BOOST_TEST(propertyIdFromNumber(0.1 + 0.2) == "0.30000000000000004");  // round-trip form
-    BOOST_TEST(propertyIdFromNumber(NAN) == "");
+    BOOST_TEST(keyText(123.0) == "123");
+    BOOST_TEST(keyText(-7.0) == "-7");
+    BOOST_TEST(keyText(0.0) == "0");
+    BOOST_TEST(keyText(-0.0) == "0");
+    BOOST_TEST(keyText(12.5) == "12.5");
+    BOOST_TEST(keyText(123456789012345.0) == "123456789012345");
+    BOOST_TEST(keyText(1e6) == "1000000");
+    BOOST_TEST(keyText(0.1 + 0.2) == "0.30000000000000004");  // round-trip form
+    BOOST_TEST(keyText(NAN) == "");
     // The hand example with ids given as numbers (converted as the add-in does), as text with
     // blanks around, and as text: one index.
     Sales text = handExample();
@@ -269,7 +270,7 @@ BOOST_AUTO_TEST_CASE(ids_as_text_and_numbers) {
     Sales padded = handExample();
     const double code[] = {101, 101, 102, 102, 103, 103};
     for (std::size_t i = 0; i < 6; ++i) {
-        num.in.id[i] = propertyIdFromNumber(code[i]);
+        num.in.id[i] = keyText(code[i]);
         text.in.id[i] = std::to_string(static_cast<int>(code[i]));
         padded.in.id[i] = "  " + text.in.id[i] + " ";
     }

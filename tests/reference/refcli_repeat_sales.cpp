@@ -12,13 +12,14 @@
 //       -> as repeat_sales_index
 // Options: freq=M base=<serial> method=cs|bmn|cs2 minhold=6 maxrate=1 chain=0 init=0
 //          minsales=1 level=0.95 numericid=0 (1: read ids as numbers and convert them with
-//          propertyIdFromNumber, as the add-in does for numeric cells)
+//          keyText, as the add-in does for numeric cells)
 #include <cmath>
 #include <cstdio>
 #include <stdexcept>
 #include <string>
 
 #include "repeat_sales.hpp"
+#include "text_keys.hpp"
 #include "refcli.hpp"
 
 namespace {
@@ -45,7 +46,7 @@ lintel::RepeatSalesOptions options(const refcli::Args& a) {
 lintel::RepeatSalesInput input(const refcli::Table& t, const refcli::Args& a) {
     lintel::RepeatSalesInput in;
     if (refcli::number(a, "numericid", 0) != 0)
-        for (double x : t.numbers("id")) in.id.push_back(lintel::propertyIdFromNumber(x));
+        for (double x : t.numbers("id")) in.id.push_back(lintel::keyText(x));
     else
         in.id = t.text("id");
     in.sales.date = t.numbers("date");
