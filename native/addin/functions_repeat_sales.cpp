@@ -133,9 +133,7 @@ OutTable rsPairs(const std::vector<Arg>& a, const CallContext& ctx) {
     const bool titles = opts.flag("titles", false), notes = opts.flag("notes", false);
     if (audit.pairs.empty() && !titles && !notes) {
         // Nothing to list: say why rather than "the result is empty".
-        const std::string prefix = "index not estimated: ";
-        for (const auto& w : audit.diag.warnings)
-            if (w.rfind(prefix, 0) == 0) throw InputError(w.substr(prefix.size()));
+        if (audit.notEstimated) throw InputError(*audit.notEstimated);
         throw InputError("no property has two sales with a usable date and id");
     }
     OutTable out;

@@ -231,7 +231,8 @@ void labelRow(OutTable& out, const std::string& label, double value, std::size_t
 
 void appendNotes(OutTable& out, const Diagnostics& d, std::size_t width) {
     labelRow(out, "rows used", static_cast<double>(d.rowsUsed), width);
-    for (const auto& [why, n] : d.dropped) labelRow(out, "dropped: " + why, static_cast<double>(n), width);
+    for (const auto& [why, n] : d.dropped)
+        labelRow(out, std::string("dropped: ") + dropReasonText(why), static_cast<double>(n), width);
     for (const auto& w : d.warnings) {
         out.addRow();
         out.text("warning");

@@ -59,8 +59,6 @@ constexpr std::size_t kChunk = 1024;     // rows per block of the demeaned desig
 constexpr std::size_t kMaxLevels = 1000;  // levels of one categorical column
 constexpr std::size_t kMaxTerms = 1500;   // characteristic terms in all
 constexpr double kInf = std::numeric_limits<double>::infinity();
-// Split into its two causes after screening; shown as is when no row is usable at all.
-const std::string kCombinedReason = "blank or invalid characteristic";
 
 // ---------------------------------------------------------------------------------------
 // The design: screened sales sorted by period, with their characteristic terms encoded.
@@ -144,51 +142,27 @@ Design buildDesign(const HedonicInput& in, const HedonicOptions& o) {
                                          columnName(c, j)));
     }
 
-    // Row check of the characteristics: 0 fine, 1 blank/invalid, 2 log of a non-positive
-    // value (the first failing column decides).
-    std::vector<char> code(n, 0);
+    // Row check of the characteristics: blank or invalid, or the log of a non-positive value
+    // (the first failing column decides).
+    RowProblems problem(n);
     for (std::size_t j = 0; j < chars.size(); ++j) {
         const auto& c = chars[j];
         const bool logged = contains(o.logColumns, static_cast<int>(j + 1));
         if (c.numeric.size() == n) {
             for (std::size_t i = 0; i < n; ++i) {
-                if (code[i]) continue;
+                if (problem[i]) continue;
                 const double v = c.numeric[i];
-                if (!std::isfinite(v)) code[i] = 1;
-                else if (logged && v <= 0) code[i] = 2;
+                if (!std::isfinite(v)) problem[i] = DropReason::BadCharacteristic;
+                else if (logged && v <= 0) problem[i] = DropReason::LogNonPositive;
             }
         } else {
             for (std::size_t i = 0; i < n; ++i)
-                if (!code[i] && c.text[i].empty()) code[i] = 1;
+                if (!problem[i] && c.text[i].empty()) problem[i] = DropReason::BadCharacteristic;
         }
     }
-    std::vector<char> valid(n);
-    for (std::size_t i = 0; i < n; ++i) valid[i] = code[i] == 0;
 
     Design D;
-    ScreenedSales s = screenSales(in.sales, o.freq, D.diag, &valid, kCombinedReason.c_str());
-    // Split the combined reason into its two causes, in screenSales' order of checks.
-    {
-        std::size_t blank = 0, logBad = 0;
-        const auto& sl = in.sales;
-        for (std::size_t i = 0; i < n; ++i) {
-            if (!code[i]) continue;
-            if (!sl.emptyRow.empty() && sl.emptyRow[i]) continue;
-            if (!isUsableSerial(sl.date[i])) continue;
-            if (!std::isfinite(sl.price[i]) || sl.price[i] <= 0) continue;
-            (code[i] == 1 ? blank : logBad)++;
-        }
-        auto& dr = D.diag.dropped;
-        for (std::size_t k = 0; k < dr.size(); ++k) {
-            if (dr[k].first != kCombinedReason) continue;
-            dr.erase(dr.begin() + static_cast<std::ptrdiff_t>(k));
-            std::vector<std::pair<std::string, std::size_t>> add;
-            if (blank) add.emplace_back(reason::kBadCharacteristic, blank);
-            if (logBad) add.emplace_back(reason::kLogNonPositive, logBad);
-            dr.insert(dr.begin() + static_cast<std::ptrdiff_t>(k), add.begin(), add.end());
-            break;
-        }
-    }
+    ScreenedSales s = screenSales(in.sales, o.freq, D.diag, &problem);
 
     // Sort the used rows by period (counting sort, stable in input order).
     D.axis = s.axis;

@@ -83,12 +83,6 @@ struct HedonicOptions : IndexOptions {
                                             // term counts as collinear with earlier terms
 };
 
-// Row drop reasons of the hedonic estimators.
-namespace reason {
-inline const std::string kBadCharacteristic = "blank or invalid characteristic";
-inline const std::string kLogNonPositive = "log of a non-positive characteristic";
-}  // namespace reason
-
 enum class TermKind { Intercept, Characteristic, Period };
 
 struct HedonicTerm {

@@ -35,7 +35,7 @@ HpResult hodrickPrescott(const std::vector<double>& y, const HpOptions& o) {
             ++observed;
         }
     r.diag.rowsUsed = observed;
-    r.diag.drop("blank or non-numeric value", y.size() - observed);
+    r.diag.drop(DropReason::BlankValue, y.size() - observed);
     if (observed < 3)
         throw InputError(fmt::format("the trend needs at least 3 values, the index has {}",
                                      observed));

@@ -20,8 +20,8 @@ void countValues(const std::vector<double>& index, bool positiveOnly, Diagnostic
         else if (positiveOnly && v <= 0) ++nonPos;
     }
     d.rowsUsed = index.size() - blank - nonPos;
-    d.drop(reason::kBlankValue, blank);
-    d.drop(reason::kNonPositiveValue, nonPos);
+    d.drop(DropReason::BlankValue, blank);
+    d.drop(DropReason::NonPositiveValue, nonPos);
 }
 
 std::vector<double> logChanges(const std::vector<double>& index, int lag) {

@@ -37,11 +37,6 @@
 
 namespace lintel {
 
-namespace reason {
-inline const std::string kBlankValue = "blank or non-numeric value";
-inline const std::string kNonPositiveValue = "non-positive value";
-}  // namespace reason
-
 namespace analytics {
 // rowsIn = rows; rowsUsed = rows with a value (> 0 when positiveOnly); drops counted by reason.
 void countValues(const std::vector<double>& index, bool positiveOnly, Diagnostics& diag);

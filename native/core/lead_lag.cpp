@@ -42,8 +42,8 @@ LeadLagResult leadLagOrEmpty(const LeadLagInput& in, const LeadLagOptions& o) {
         else ++both;
     }
     r.diag.rowsUsed = both;
-    r.diag.drop("period where either index has no value", blank);
-    r.diag.drop(reason::kNonPositiveValue, nonPos);
+    r.diag.drop(DropReason::NoCommonValue, blank);
+    r.diag.drop(DropReason::NonPositiveValue, nonPos);
 
     const std::vector<double> ca = analytics::logChanges(in.a, r.changeLag);
     const std::vector<double> cb = analytics::logChanges(in.b, r.changeLag);

@@ -15,8 +15,6 @@
 
 namespace lintel {
 
-const char* const kBlankStratum = "blank stratum";
-
 namespace {
 
 // Stratum-period cells held at most (memory guard against e.g. an id column as strata).
@@ -177,13 +175,13 @@ MixResult indexMix(const MixInput& in, const MixOptions& o) {
         if (in.strata[k].size() != n)
             throw InputError(fmt::format("strata column {} has {} rows, dates has {}", k + 1,
                                          in.strata[k].size(), n));
-    std::vector<char> valid(n, 1);
+    RowProblems blank(n);
     for (const auto& col : in.strata)
         for (std::size_t i = 0; i < n; ++i)
-            if (isBlankText(col[i])) valid[i] = 0;
+            if (isBlankText(col[i])) blank[i] = DropReason::BlankStratum;
 
     MixResult r;
-    const ScreenedSales s = screenSales(in.sales, o.freq, r.diag, &valid, kBlankStratum);
+    const ScreenedSales s = screenSales(in.sales, o.freq, r.diag, &blank);
 
     // Strata ids in order of first appearance (deterministic).
     std::map<std::string, int> ids;
@@ -283,9 +281,8 @@ MixResult indexMix(const MixInput& in, const MixOptions& o) {
     }
 
     const std::size_t used = std::accumulate(b.used().begin(), b.used().end(), std::size_t{0});
-    r.diag.drop(fmt::format("in a stratum-period with fewer than {} sales", o.minSales), thinRows);
-    r.diag.drop("in a stratum without a price in the reference period",
-                r.diag.rowsUsed - used - thinRows);
+    r.diag.drop(DropReason::ThinStratumPeriod, thinRows);
+    r.diag.drop(DropReason::UnpricedStratum, r.diag.rowsUsed - used - thinRows);
     r.diag.rowsUsed = used;
     std::size_t noValue = 0;
     for (double v : r.table.index)

@@ -82,8 +82,6 @@ struct MixResult : IndexResult {
     std::size_t fallbackWeights = 0;  // links whose previous year gave no weight (link period used)
 };
 
-extern const char* const kBlankStratum;  // diagnostics reason "blank stratum"
-
 MixResult indexMix(const MixInput& input, const MixOptions& options);
 
 }  // namespace lintel

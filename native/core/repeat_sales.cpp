@@ -261,29 +261,6 @@ std::string noValueText(NoValue why, const RepeatSalesOptions& o) {
     return "";
 }
 
-// Pairs formed, used and dropped by reason (texts in the order they first occur).
-PairCounts countPairs(const BuiltPairs& bp, const RepeatSalesOptions& o) {
-    PairCounts c;
-    c.formed = bp.size();
-    std::vector<int> slot(64, -1);  // (status, problem) -> position in c.dropped
-    for (std::size_t i = 0; i < bp.size(); ++i) {
-        if (bp.status[i] == PairStatus::Used) {
-            ++c.used;
-            continue;
-        }
-        const std::size_t key = static_cast<std::size_t>(bp.status[i]) * 5 +
-                                static_cast<std::size_t>(bp.problem[i]);
-        if (slot[key] < 0) {
-            const std::string text = rs_detail::reasonText(bp, i, o);
-            // Different codes never share a text, so a new key is a new entry.
-            slot[key] = static_cast<int>(c.dropped.size());
-            c.dropped.emplace_back(text, 0);
-        }
-        ++c.dropped[slot[key]].second;
-    }
-    return c;
-}
-
 // What both estimators hand to the table assembly.
 struct Levels {
     std::vector<double> level;   // log level per period (any reference); kNoValue = none
@@ -340,7 +317,7 @@ private:
 
     std::string pairSummaryNow() const {
         if (bp_.size() == 0) return "no property has two sales with a usable date and id";
-        return countPairs(bp_, o_).summary();
+        return rs_detail::countPairs(bp_).summary();
     }
 
     int explicitBase() const {
@@ -628,13 +605,9 @@ private:
     }
 };
 
-// Rows used, row drops, pair counts.
-void finish(BuiltPairs& bp, const RepeatSalesOptions& o, RepeatSalesResult& r) {
-    r.diag.dropped.insert(r.diag.dropped.begin(), bp.diag.dropped.begin(), bp.diag.dropped.end());
-    r.diag.rowsIn = bp.diag.rowsIn;
-    r.diag.warnings.insert(r.diag.warnings.begin(), bp.diag.warnings.begin(),
-                           bp.diag.warnings.end());
-    r.pairCounts = countPairs(bp, o);
+// Pair counts and the rows used (r.diag already holds the screening's row drops).
+void finish(const BuiltPairs& bp, RepeatSalesResult& r) {
+    r.pairCounts = rs_detail::countPairs(bp);
     if (bp.sales) {
         const std::size_t n = bp.rowUsable.size();
         std::vector<char> inReal(n, 0), inUsed(n, 0);
@@ -652,24 +625,28 @@ void finish(BuiltPairs& bp, const RepeatSalesOptions& o, RepeatSalesResult& r) {
             else ++single;
         }
         r.diag.rowsUsed = used;
-        r.diag.drop(reason::kSingleSale, single);
-        r.diag.drop(reason::kNoUsedPair, none);
+        r.diag.drop(DropReason::SingleSale, single);
+        r.diag.drop(DropReason::NoUsedPair, none);
     } else {
-        // Pairs given directly: each pair is a row.
+        // Pairs given directly: each pair is a row (its reasons are in the pair counts).
         r.diag.rowsIn = bp.size();
         r.diag.rowsUsed = r.pairCounts.used;
-        for (auto& [k, v] : r.pairCounts.dropped) r.diag.drop(k, v);
+        r.diag.drop(DropReason::PairNotUsed, bp.size() - r.pairCounts.used);
     }
 }
 
 RepeatSalesResult runEstimate(BuiltPairs bp, const RepeatSalesOptions& o, bool forAudit,
                               PairAudit* audit) {
     RepeatSalesResult r;
+    r.diag = bp.diag;  // the row drops of the screening and of duplicate sales
+    std::optional<std::string> notEstimated;
     try {
         Estimator(bp, o, r).run();
     } catch (const InputError& e) {
         if (!forAudit) throw;
         r = RepeatSalesResult{};
+        r.diag = bp.diag;
+        notEstimated = e.what();
         // Pairs that passed the filters (or were judged by the failed estimate).
         for (std::size_t i = 0; i < bp.size(); ++i) {
             bp.weight[i] = 0;
@@ -683,11 +660,12 @@ RepeatSalesResult runEstimate(BuiltPairs bp, const RepeatSalesOptions& o, bool f
         }
         r.diag.warn(std::string("index not estimated: ") + e.what());
     }
-    finish(bp, o, r);
+    finish(bp, r);
     if (audit) {
-        audit->pairs = rs_detail::auditRows(bp, o);
+        audit->pairs = rs_detail::auditRows(bp);
         audit->counts = r.pairCounts;
         audit->diag = r.diag;
+        audit->notEstimated = std::move(notEstimated);
     }
     return r;
 }
@@ -695,7 +673,10 @@ RepeatSalesResult runEstimate(BuiltPairs bp, const RepeatSalesOptions& o, bool f
 }  // namespace
 
 std::string PairCounts::summary() const {
-    return fmt::format("{} of {} pairs used", used, formed) + droppedText(dropped);
+    std::vector<std::pair<std::string, std::size_t>> texts;
+    texts.reserve(dropped.size());
+    for (const auto& [r, c] : dropped) texts.emplace_back(pairReasonText(r), c);
+    return fmt::format("{} of {} pairs used", used, formed) + droppedText(texts);
 }
 
 std::string RepeatSalesResult::summary() const {

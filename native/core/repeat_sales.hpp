@@ -24,6 +24,7 @@
 #pragma once
 
 #include <cstddef>
+#include <cstdint>
 #include <optional>
 #include <string>
 #include <string_view>
@@ -70,22 +71,38 @@ struct RepeatSalesOptions : IndexOptions {
                                // 0 = two years (24 months, 8 quarters, 2 years)
 };
 
-// Why a pair was not used. Codes are stable; the text is what RSPAIRS shows.
-enum class PairStatus {
+// Why a pair was not used. Codes are stable (RSPAIRS and the reference checks show them); the
+// texts are in one table (pairStatusText, pairReasonText).
+enum class PairStatus : std::uint8_t {
     Used = 0,
-    FirstSaleUnusable,   // "first sale: <row reason>" (price, include)
+    FirstSaleUnusable,   // "first sale: <row reason>" (date, price, include)
     SecondSaleUnusable,  // "second sale: <row reason>"
     Duplicate,           // "duplicate sale (same id and date)": second row is the dropped one
     Changed,             // "property changed at the second sale"
     SamePeriod,          // "both sales in one period"
-    ShortHold,           // "held less than <minhold> months"
-    ExtremeReturn,       // "annualised log return beyond +/-<maxrate>"
+    ShortHold,           // "held less than minhold months"
+    ExtremeReturn,       // "annualised log return beyond +/-maxrate"
     NotLinked,           // "not linked to the base period": its periods lie in another
                          // connected part of the pair graph
     ChainUnreached,      // "first sale in a period without a value" (chain 1)
-    ThinPeriod,          // "fewer than <minsales> pairs end in the period" (chain 1)
+    ThinPeriod,          // "fewer than minsales pairs end in the period" (chain 1)
     NotEstimated,        // "index not estimated" (RSPAIRS when the index cannot be built)
 };
+inline constexpr std::size_t kPairStatusCount =
+    static_cast<std::size_t>(PairStatus::NotEstimated) + 1;
+
+// The full reason of a dropped pair: its status and, for an unusable first or second sale,
+// that sale's row reason (BadDate, BadPrice, NonPositivePrice, Excluded).
+struct PairReason {
+    PairStatus status = PairStatus::Used;
+    std::optional<DropReason> sale;
+    bool operator==(const PairReason& o) const { return status == o.status && sale == o.sale; }
+};
+
+const char* pairStatusText(PairStatus status);  // "" for Used; "first sale unusable" ...
+// pairStatusText, with the sale's row reason for an unusable sale ("second sale: blank or
+// non-numeric price").
+std::string pairReasonText(const PairReason& reason);
 
 // One row of the pair audit (RSPAIRS).
 struct SalePair {
@@ -99,7 +116,8 @@ struct SalePair {
                                      // is unusable or the days are equal
     bool used = false;
     PairStatus status = PairStatus::Used;
-    std::string reason;              // "" when used
+    std::optional<DropReason> saleProblem;  // First/SecondSaleUnusable: the sale's row reason
+    std::string reason;              // pairReasonText; "" when used
     double weight = 0;               // weight in the final stage, normalised to mean 1 over
                                      // the used pairs; 0 when not used
 };
@@ -108,7 +126,8 @@ struct SalePair {
 struct PairCounts {
     std::size_t formed = 0;
     std::size_t used = 0;
-    std::vector<std::pair<std::string, std::size_t>> dropped;
+    std::vector<std::pair<PairReason, std::size_t>> dropped;
+    std::size_t droppedFor(const PairReason& reason) const;
     std::string summary() const;  // "9120 of 10000 pairs used; dropped: 500 ..."
 };
 
@@ -124,6 +143,7 @@ struct RepeatSalesVarianceModel {
 struct RepeatSalesResult {
     IndexTable table;   // count = used pairs whose second sale is in the period
     Diagnostics diag;   // rows: used = in at least one used pair; pair reasons in pairCounts
+                        // (pairs given directly: each pair is a row, dropped as PairNotUsed)
     PairCounts pairCounts;
     RepeatSalesVarianceModel variance;
     std::vector<double> logIndex;   // b_t - b_base per period; kNoValue where no value
@@ -139,6 +159,9 @@ struct PairAudit {
     std::vector<SalePair> pairs;
     PairCounts counts;
     Diagnostics diag;
+    // Set when the index could not be built (RSPAIRS still lists the pairs): the reason, in
+    // the user's words, as CHAINRS would have said it.
+    std::optional<std::string> notEstimated;
 };
 
 // CHAINRS: the index. Throws InputError when no index can be built (no usable pair, base
@@ -149,8 +172,9 @@ RepeatSalesResult repeatSalesIndex(const RepeatSalesInput& input,
                                    PairAudit* audit = nullptr);
 
 // RSPAIRS: the audit table under the same filters and options. Does not throw when the index
-// itself cannot be built: the pairs that passed the filters are then marked NotEstimated and
-// the reason is in diag.warnings. Throws InputError only for invalid options or columns.
+// itself cannot be built: the pairs that passed the filters are then marked NotEstimated, the
+// reason is in notEstimated (and, for the notes, in diag.warnings as "index not estimated:
+// <reason>"). Throws InputError only for invalid options or columns.
 PairAudit repeatSalesPairs(const RepeatSalesInput& input, const RepeatSalesOptions& options);
 
 // Pairs given directly (one entry per pair; first and second sale of one property; a pair
@@ -164,13 +188,5 @@ struct RepeatSalesPairInput {
 RepeatSalesResult repeatSalesFromPairs(const RepeatSalesPairInput& input,
                                        const RepeatSalesOptions& options,
                                        PairAudit* audit = nullptr);
-
-// Reason texts of the row-level drops added by the repeat-sales estimators.
-namespace reason {
-inline const std::string kBlankId = "blank property id";
-inline const std::string kDuplicateSale = "duplicate sale (same id and date)";
-inline const std::string kSingleSale = "only sale of its property";
-inline const std::string kNoUsedPair = "in no used pair";
-}  // namespace reason
 
 }  // namespace lintel

@@ -11,9 +11,6 @@
 
 namespace lintel::rs_detail {
 
-// Why a sale of a pair is unusable (the text after "first sale: " / "second sale: ").
-enum class SaleProblem : std::uint8_t { None, BadDate, BadPrice, NonPositivePrice, Excluded };
-
 // Pairs in audit order as plain columns (the audit rows with their texts are only built
 // when asked for: CHAINRS does not need them).
 struct BuiltPairs {
@@ -23,7 +20,8 @@ struct BuiltPairs {
     std::vector<double> y;                         // ln(P2 / P1) (set when both usable)
     std::vector<double> months, rate;              // months held, annualised log return
     std::vector<PairStatus> status;                // Used = candidate until estimated
-    std::vector<SaleProblem> problem;              // for First/SecondSaleUnusable
+    std::vector<std::optional<DropReason>> problem;  // First/SecondSaleUnusable: the
+                                                     // sale's row reason
     std::vector<char> realPair;                    // 0: a duplicate listed as a pseudo pair
     std::vector<char> swapped;                     // pair input: the dates were reversed
     std::vector<double> weight;                    // final-stage weight, mean 1 over used
@@ -42,10 +40,17 @@ void validateOptions(const RepeatSalesOptions& o);
 BuiltPairs buildPairsFromSales(const RepeatSalesInput& in, const RepeatSalesOptions& o);
 BuiltPairs buildPairsFromPairInput(const RepeatSalesPairInput& in, const RepeatSalesOptions& o);
 
-// Reason text of pair i ("" when used).
-std::string reasonText(const BuiltPairs& bp, std::size_t i, const RepeatSalesOptions& o);
-std::string statusText(PairStatus s, const RepeatSalesOptions& o);
+// The reason of pair i (status Used when it is used).
+PairReason reasonOf(const BuiltPairs& bp, std::size_t i);
+
+// Pair reasons numbered 0 .. kPairReasonSlots - 1 (a table index for counting and caching the
+// texts): status * (kDropReasonCount + 1) + (sale ? 1 + sale : 0).
+inline constexpr std::size_t kPairReasonSlots = kPairStatusCount * (kDropReasonCount + 1);
+std::size_t pairReasonSlot(const PairReason& r);
+
+// Pairs formed, used and dropped by reason.
+PairCounts countPairs(const BuiltPairs& bp);
 // The audit rows.
-std::vector<SalePair> auditRows(const BuiltPairs& bp, const RepeatSalesOptions& o);
+std::vector<SalePair> auditRows(const BuiltPairs& bp);
 
 }  // namespace lintel::rs_detail

@@ -6,7 +6,10 @@
 // (day, row): together a sort by (id, date). Consecutive sales of one property form a pair.
 #include <algorithm>
 #include <cctype>
+#include <climits>
 #include <cmath>
+#include <cstdint>
+#include <stdexcept>
 #include <string_view>
 #include <unordered_map>
 
@@ -20,26 +23,36 @@ namespace lintel {
 namespace {
 
 using rs_detail::BuiltPairs;
-using rs_detail::SaleProblem;
+using SaleProblem = std::optional<DropReason>;
 
-// Why a row with a usable id and date was not usable (screenSales' order of checks).
-SaleProblem rowProblem(double price) {
-    if (!std::isfinite(price)) return SaleProblem::BadPrice;
-    if (price <= 0) return SaleProblem::NonPositivePrice;
-    return SaleProblem::Excluded;
-}
+struct StatusText {
+    PairStatus status;
+    const char* text;
+};
 
-const std::string& problemText(SaleProblem p) {
-    switch (p) {
-        case SaleProblem::BadDate: return reason::kBadDate;
-        case SaleProblem::BadPrice: return reason::kBadPrice;
-        case SaleProblem::NonPositivePrice: return reason::kNonPositivePrice;
-        case SaleProblem::Excluded: return reason::kExcluded;
-        case SaleProblem::None: break;
-    }
-    static const std::string none;
-    return none;
+// The one table of pair-status texts, in enum order.
+constexpr StatusText kStatusTexts[] = {
+    {PairStatus::Used, ""},
+    {PairStatus::FirstSaleUnusable, "first sale unusable"},
+    {PairStatus::SecondSaleUnusable, "second sale unusable"},
+    {PairStatus::Duplicate, "duplicate sale (same id and date)"},
+    {PairStatus::Changed, "property changed at the second sale"},
+    {PairStatus::SamePeriod, "both sales in one period"},
+    {PairStatus::ShortHold, "held less than minhold months"},
+    {PairStatus::ExtremeReturn, "annualised log return beyond +/-maxrate"},
+    {PairStatus::NotLinked, "not linked to the base period"},
+    {PairStatus::ChainUnreached, "first sale in a period without a value"},
+    {PairStatus::ThinPeriod, "fewer than minsales pairs end in the period"},
+    {PairStatus::NotEstimated, "index not estimated"},
+};
+
+constexpr bool statusTableInEnumOrder() {
+    std::size_t i = 0;
+    for (const StatusText& t : kStatusTexts)
+        if (static_cast<std::size_t>(t.status) != i++) return false;
+    return i == kPairStatusCount;
 }
+static_assert(statusTableInEnumOrder(), "one text per PairStatus, in enum order");
 
 // Civil dates of whole-day serials through a table over the span of the data (sales fall
 // on a few thousand distinct days; the conversion is the costly part of pair building).
@@ -116,8 +129,8 @@ std::size_t addPair(BuiltPairs& b, std::size_t rowA, std::size_t rowB, std::uint
     b.secondRow.push_back(rowB);
     b.group.push_back(group);
     b.realPair.push_back(1);
-    b.problem.push_back(SaleProblem::None);
-    const bool datesOk = probA != SaleProblem::BadDate && probB != SaleProblem::BadDate;
+    b.problem.push_back(std::nullopt);
+    const bool datesOk = probA != DropReason::BadDate && probB != DropReason::BadDate;
     b.months.push_back(datesOk ? monthsBetween(ca, cb) : kNoValue);
     double y = kNoValue, rate = kNoValue;
     if (std::isfinite(pa) && std::isfinite(pb) && pa > 0 && pb > 0) {
@@ -128,10 +141,10 @@ std::size_t addPair(BuiltPairs& b, std::size_t rowA, std::size_t rowB, std::uint
     b.rate.push_back(rate);
     long k1 = 0, k2 = 0;
     PairStatus st;
-    if (probA != SaleProblem::None) {
+    if (probA) {
         st = PairStatus::FirstSaleUnusable;
         b.problem.back() = probA;
-    } else if (probB != SaleProblem::None) {
+    } else if (probB) {
         st = PairStatus::SecondSaleUnusable;
         b.problem.back() = probB;
     } else {
@@ -146,6 +159,25 @@ std::size_t addPair(BuiltPairs& b, std::size_t rowA, std::size_t rowB, std::uint
 }
 
 }  // namespace
+
+const char* pairStatusText(PairStatus status) {
+    const auto i = static_cast<std::size_t>(status);
+    return i < kPairStatusCount ? kStatusTexts[i].text : "unknown reason";
+}
+
+std::string pairReasonText(const PairReason& r) {
+    if (r.sale && r.status == PairStatus::FirstSaleUnusable)
+        return std::string("first sale: ") + dropReasonText(*r.sale);
+    if (r.sale && r.status == PairStatus::SecondSaleUnusable)
+        return std::string("second sale: ") + dropReasonText(*r.sale);
+    return pairStatusText(r.status);
+}
+
+std::size_t PairCounts::droppedFor(const PairReason& reason) const {
+    for (const auto& [r, c] : dropped)
+        if (r == reason) return c;
+    return 0;
+}
 
 std::optional<RepeatSalesMethod> parseRepeatSalesMethod(std::string_view text) {
     std::string t;
@@ -167,39 +199,41 @@ const char* repeatSalesMethodCode(RepeatSalesMethod m) {
 
 namespace rs_detail {
 
-std::string statusText(PairStatus s, const RepeatSalesOptions& o) {
-    switch (s) {
-        case PairStatus::Used: return "";
-        case PairStatus::FirstSaleUnusable: return "first sale unusable";
-        case PairStatus::SecondSaleUnusable: return "second sale unusable";
-        case PairStatus::Duplicate: return reason::kDuplicateSale;
-        case PairStatus::Changed: return "property changed at the second sale";
-        case PairStatus::SamePeriod: return "both sales in one period";
-        case PairStatus::ShortHold: return fmt::format("held less than {:g} months", o.minHoldMonths);
-        case PairStatus::ExtremeReturn:
-            return fmt::format("annualised log return beyond +/-{:g}", o.maxRate);
-        case PairStatus::NotLinked: return "not linked to the base period";
-        case PairStatus::ChainUnreached: return "first sale in a period without a value";
-        case PairStatus::ThinPeriod:
-            return fmt::format("fewer than {} pairs end in the period", o.minSales);
-        case PairStatus::NotEstimated: return "index not estimated";
-    }
-    return "";
+PairReason reasonOf(const BuiltPairs& bp, std::size_t i) {
+    return {bp.status[i], bp.problem[i]};
 }
 
-std::string reasonText(const BuiltPairs& bp, std::size_t i, const RepeatSalesOptions& o) {
-    switch (bp.status[i]) {
-        case PairStatus::FirstSaleUnusable: return "first sale: " + problemText(bp.problem[i]);
-        case PairStatus::SecondSaleUnusable: return "second sale: " + problemText(bp.problem[i]);
-        default: return statusText(bp.status[i], o);
-    }
+std::size_t pairReasonSlot(const PairReason& r) {
+    const std::size_t sale = r.sale ? 1 + static_cast<std::size_t>(*r.sale) : 0;
+    return static_cast<std::size_t>(r.status) * (kDropReasonCount + 1) + sale;
 }
 
-std::vector<SalePair> auditRows(const BuiltPairs& bp, const RepeatSalesOptions& o) {
+PairCounts countPairs(const BuiltPairs& bp) {
+    PairCounts c;
+    c.formed = bp.size();
+    std::vector<std::size_t> slot(kPairReasonSlots, SIZE_MAX);  // reason -> entry of c.dropped
+    for (std::size_t i = 0; i < bp.size(); ++i) {
+        if (bp.status[i] == PairStatus::Used) {
+            ++c.used;
+            continue;
+        }
+        const PairReason r = reasonOf(bp, i);
+        const std::size_t k = pairReasonSlot(r);
+        if (k >= slot.size()) throw std::logic_error("pair reason outside the slot table");
+        if (slot[k] == SIZE_MAX) {
+            slot[k] = c.dropped.size();
+            c.dropped.emplace_back(r, 0);
+        }
+        ++c.dropped[slot[k]].second;
+    }
+    return c;
+}
+
+std::vector<SalePair> auditRows(const BuiltPairs& bp) {
     std::vector<SalePair> out(bp.size());
-    // Reason texts are the same for many pairs: build each (status, problem) text once.
-    std::vector<std::string> cache(64);
-    std::vector<char> cached(64, 0);
+    // Reason texts are the same for many pairs: build each reason's text once.
+    std::vector<std::string> cache(kPairReasonSlots);
+    std::vector<char> cached(kPairReasonSlots, 0);
     for (std::size_t i = 0; i < bp.size(); ++i) {
         SalePair& p = out[i];
         p.id = std::string(bp.ids.empty() ? std::string_view() : bp.ids[bp.group[i]]);
@@ -227,17 +261,15 @@ std::vector<SalePair> auditRows(const BuiltPairs& bp, const RepeatSalesOptions& 
         p.status = bp.status[i];
         p.used = p.status == PairStatus::Used;
         p.weight = p.used ? bp.weight[i] : 0.0;
-        const std::size_t key = static_cast<std::size_t>(p.status) * 5 +
-                                static_cast<std::size_t>(bp.problem[i]);
-        if (key < cache.size()) {
-            if (!cached[key]) {
-                cache[key] = reasonText(bp, i, o);
-                cached[key] = 1;
-            }
-            p.reason = cache[key];
-        } else {
-            p.reason = reasonText(bp, i, o);
+        const PairReason r = reasonOf(bp, i);
+        p.saleProblem = r.sale;
+        const std::size_t k = pairReasonSlot(r);
+        if (k >= cache.size()) throw std::logic_error("pair reason outside the slot table");
+        if (!cached[k]) {
+            cache[k] = pairReasonText(r);
+            cached[k] = 1;
         }
+        p.reason = cache[k];
     }
     return out;
 }
@@ -271,22 +303,20 @@ BuiltPairs buildPairsFromSales(const RepeatSalesInput& in, const RepeatSalesOpti
     BuiltPairs out;
     out.sales = &in;
 
-    // Row validity: screenSales (blank id is the extra check). It throws when no row is
-    // usable; the audit is still built then (every pair shows why it was dropped).
+    // Row validity: the sales screening, a blank id being the extra check. The audit is built
+    // even when no row is usable (every pair shows why it was dropped).
     std::vector<std::string_view> ids(n);
     std::vector<char> idValid(n);
+    RowProblems idProblem(n);
     for (std::size_t i = 0; i < n; ++i) {
         ids[i] = trimBlanks(in.id[i]);
         idValid[i] = !ids[i].empty();
+        if (!idValid[i]) idProblem[i] = DropReason::BlankId;
     }
     std::vector<char> usable(n, 0);
-    try {
-        ScreenedSales sc = screenSales(s, o.freq, out.diag, &idValid, reason::kBlankId.c_str());
-        for (std::size_t r : sc.rows) usable[r] = 1;
-        out.axis = sc.axis;
-    } catch (const InputError&) {
-        // The counts were set before the throw; no usable row, so no axis.
-    }
+    const ScreenedSales sc = screenRows(s, o.freq, out.diag, &idProblem);
+    for (std::size_t r : sc.rows) usable[r] = 1;
+    if (!sc.rows.empty()) out.axis = sc.axis;
 
     // Rows that take part in the sequence of their property: a usable id and date.
     auto sequenced = [&](std::size_t i) {
@@ -333,9 +363,9 @@ BuiltPairs buildPairsFromSales(const RepeatSalesInput& in, const RepeatSalesOpti
 
     out.rowUsable = usable;
     reserve(out, order.size() > groups ? order.size() - groups : 0);
-    auto problem = [&](std::size_t r) {
-        return usable[r] ? SaleProblem::None : rowProblem(s.price[r]);
-    };
+    // A sequenced row (usable id and date) that is not usable: its screening reason (price,
+    // include).
+    auto problem = [&](std::size_t r) { return sc.problem[r]; };
 
     std::size_t prevKept = 0;
     for (std::size_t g = 0; g < groups; ++g) {
@@ -369,13 +399,13 @@ BuiltPairs buildPairsFromSales(const RepeatSalesInput& in, const RepeatSalesOpti
             for (auto j = it; j != runEnd; ++j) {
                 if (*j == keep) continue;
                 addPair(out, keep, *j, gid, day[keep], day[*j], civil[keep], civil[*j],
-                        s.price[keep], s.price[*j], SaleProblem::None, SaleProblem::None, false,
+                        s.price[keep], s.price[*j], std::nullopt, std::nullopt, false,
                         o);
                 out.status.back() = PairStatus::Duplicate;
                 out.realPair.back() = 0;
                 if (usable[*j]) {
                     out.rowUsable[*j] = 0;
-                    out.diag.drop(reason::kDuplicateSale);
+                    out.diag.drop(DropReason::DuplicateSale);
                 }
             }
             prevKept = keep;
@@ -397,12 +427,6 @@ BuiltPairs buildPairsFromPairInput(const RepeatSalesPairInput& in, const RepeatS
     out.diag.rowsIn = n;
     reserve(out, n);
     out.swapped.assign(n, 0);
-    auto problem = [](double d, double p) {
-        if (!isUsableSerial(d)) return SaleProblem::BadDate;
-        if (!std::isfinite(p)) return SaleProblem::BadPrice;
-        if (p <= 0) return SaleProblem::NonPositivePrice;
-        return SaleProblem::None;
-    };
     if (!in.id.empty()) {
         out.ids.resize(n);
         for (std::size_t i = 0; i < n; ++i) out.ids[i] = trimBlanks(in.id[i]);
@@ -430,8 +454,8 @@ BuiltPairs buildPairsFromPairInput(const RepeatSalesPairInput& in, const RepeatS
         const CivilDate ca = ok1 ? civilOf(a) : CivilDate{};
         const CivilDate cb = ok2 ? civilOf(b) : CivilDate{};
         addPair(out, i, i, static_cast<std::uint32_t>(in.id.empty() ? 0 : i), a, b, ca, cb, p1,
-                p2, problem(d1, p1), problem(d2, p2), false, o);
-        if (ok1 && ok2 && out.problem.back() == SaleProblem::None) {
+                p2, saleProblem(d1, p1), saleProblem(d2, p2), false, o);
+        if (ok1 && ok2 && !out.problem.back()) {
             const long k1 = periodKey(ca, o.freq), k2 = periodKey(cb, o.freq);
             if (!any) {
                 minKey = k1;

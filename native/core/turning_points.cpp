@@ -92,7 +92,7 @@ TurnsResult indexTurns(const TurnsInput& in, const TurnsOptions& o) {
         if (hasValue(in.index[i])) obs.push_back(i);
     }
     r.diag.rowsUsed = obs.size();
-    r.diag.drop(reason::kBlankValue, in.index.size() - obs.size());
+    r.diag.drop(DropReason::BlankValue, in.index.size() - obs.size());
     if (obs.size() < 3)
         throw InputError(fmt::format("turning points need at least 3 values, the index has {}",
                                      obs.size()));

@@ -352,9 +352,9 @@ BOOST_AUTO_TEST_CASE(rows_with_bad_characteristics_are_dropped_with_reasons) {
     m.in.sales.price[7] = kNoValue;                  // blank price: a sales reason
     m.in.characteristics[3].numeric[7] = kNoValue;  // ... counted once, as the price
     const IndexResult r = hedonicIndex(m.in, logSize());
-    BOOST_TEST(r.diag.droppedFor(reason::kLogNonPositive) == 2u);
-    BOOST_TEST(r.diag.droppedFor(reason::kBadCharacteristic) == 2u);
-    BOOST_TEST(r.diag.droppedFor(lintel::reason::kBadPrice) == 1u);
+    BOOST_TEST(r.diag.droppedFor(DropReason::LogNonPositive) == 2u);
+    BOOST_TEST(r.diag.droppedFor(DropReason::BadCharacteristic) == 2u);
+    BOOST_TEST(r.diag.droppedFor(DropReason::BadPrice) == 1u);
     BOOST_TEST(r.diag.rowsUsed == 120u - 5u);
 }
 

@@ -63,10 +63,10 @@ BOOST_AUTO_TEST_CASE(rows_dropped_with_reasons) {
     const IndexResult r = indexMean(in, RawIndexOptions{});
     BOOST_TEST(r.diag.rowsIn == 6u);
     BOOST_TEST(r.diag.rowsUsed == 1u);
-    BOOST_TEST(r.diag.droppedFor(reason::kNonPositivePrice) == 2u);
-    BOOST_TEST(r.diag.droppedFor(reason::kBadDate) == 1u);
-    BOOST_TEST(r.diag.droppedFor(reason::kBadPrice) == 1u);
-    BOOST_TEST(r.diag.droppedFor(reason::kExcluded) == 1u);
+    BOOST_TEST(r.diag.droppedFor(DropReason::NonPositivePrice) == 2u);
+    BOOST_TEST(r.diag.droppedFor(DropReason::BadDate) == 1u);
+    BOOST_TEST(r.diag.droppedFor(DropReason::BadPrice) == 1u);
+    BOOST_TEST(r.diag.droppedFor(DropReason::Excluded) == 1u);
     BOOST_TEST(r.diag.summary() ==
                "1 of 6 rows used; dropped: 1 blank or non-date date, 1 blank or non-numeric price, "
                "2 non-positive price, 1 excluded by include");

@@ -122,7 +122,7 @@ const refcli::Register regCoefs("hedonic_coefs", [](const refcli::Table& t,
     for (const auto& d : f.droppedTerms)
         std::printf("dropped,%s,,,,%s\n", quoted(d.name).c_str(), quoted(d.why).c_str());
     for (const auto& [why, n] : f.diag.dropped)
-        std::printf("reason,%s,%zu,,,\n", quoted(why).c_str(), n);
+        std::printf("reason,%s,%zu,,,\n", quoted(lintel::dropReasonText(why)).c_str(), n);
     return 0;
 });
 

@@ -125,10 +125,10 @@ const refcli::Register regDiag("repeat_sales_diag", [](const auto& t, const auto
     std::printf("kind,name,value\n");
     std::printf("rows_in,,%zu\nrows_used,,%zu\n", audit.diag.rowsIn, audit.diag.rowsUsed);
     for (const auto& [r, c] : audit.diag.dropped)
-        std::printf("dropped,%s,%zu\n", quoted(r).c_str(), c);
+        std::printf("dropped,%s,%zu\n", quoted(lintel::dropReasonText(r)).c_str(), c);
     std::printf("pairs_formed,,%zu\npairs_used,,%zu\n", audit.counts.formed, audit.counts.used);
     for (const auto& [r, c] : audit.counts.dropped)
-        std::printf("pairs_dropped,%s,%zu\n", quoted(r).c_str(), c);
+        std::printf("pairs_dropped,%s,%zu\n", quoted(lintel::pairReasonText(r)).c_str(), c);
     for (const auto& w : audit.diag.warnings) std::printf("warning,%s,\n", quoted(w).c_str());
     return 0;
 });
