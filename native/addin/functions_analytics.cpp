@@ -47,9 +47,9 @@ bool given(const Arg& a) {
     return a && !(a->rows * a->cols == 1 && a->at(0, 0).isEmpty());
 }
 
-// An integer option >= minimum; `absent` when the key is not given or left empty.
-int optionalInteger(const OptionBag& opts, const char* key, long minimum, int absent) {
-    if (std::isnan(opts.number(key, NAN))) return absent;
+// An integer option >= minimum; nullopt (the core's default) when not given or left empty.
+std::optional<int> givenInteger(const OptionBag& opts, const char* key, long minimum) {
+    if (std::isnan(opts.number(key, NAN))) return std::nullopt;
     return clampInt(opts.integer(key, minimum, minimum));
 }
 
@@ -216,10 +216,10 @@ OutTable turns(const std::vector<Arg>& a, const CallContext& ctx) {
     const TurnsInput in{dateColumn(periods, first, ctx), numberColumn(index, first)};
     TurnsOptions o;
     if (given(a[2])) o.freq = frequencyArg(a[2]);
-    o.window = optionalInteger(opts, "window", 1, -1);
-    o.minPhase = optionalInteger(opts, "minphase", 1, -1);
-    o.minCycle = optionalInteger(opts, "mincycle", 1, -1);
-    o.ends = optionalInteger(opts, "ends", 0, -1);
+    o.window = givenInteger(opts, "window", 1);
+    o.minPhase = givenInteger(opts, "minphase", 1);
+    o.minCycle = givenInteger(opts, "mincycle", 1);
+    o.ends = givenInteger(opts, "ends", 0);
     const TurnsResult r = indexTurns(in, o);
     OutTable out;
     titleRow(out, opts, {"period", "turn", "index", "months since previous"});
@@ -298,8 +298,8 @@ OutTable compare(const std::vector<Arg>& a, const CallContext&) {
     o.annual = opts.flag("annual", false);
     const double lambda = opts.number("lambda", NAN);
     if (!std::isnan(lambda)) o.lambda = lambda;
-    o.changeLag = optionalInteger(opts, "leadlag", 1, 0);
-    o.maxLag = optionalInteger(opts, "maxlag", 0, -1);
+    o.changeLag = givenInteger(opts, "leadlag", 1);
+    o.maxLag = givenInteger(opts, "maxlag", 0);
     const CompareResult r = indexCompare(in, o);
     OutTable out;
     titleRow(out, opts, {"name", "volatility", "signal-to-noise", "largest change %",

@@ -40,9 +40,9 @@ SeriesRows readSeries(const Arg& periodsArg, const Arg& indexArg, const CallCont
 
 OutTable rebase(const std::vector<Arg>& a, const CallContext& ctx) {
     const SeriesRows s = readSeries(a[0], a[1], ctx);
-    const auto base = dateArg(a[2], "base", ctx);
-    if (!base) throw InputError("base is required: a date in the new base period");
-    const std::vector<double> v = rebaseIndex(s.series, *base);
+    RebaseOptions o;
+    o.baseDate = dateArg(a[2], "base", ctx);
+    const std::vector<double> v = rebaseIndex(s.series, o).values;
     const Range& index = *a[1];
     OutTable out;
     for (std::size_t i = 0; i < s.rowOfInput.size(); ++i) {
@@ -67,8 +67,11 @@ OutTable change(const std::vector<Arg>& a, const CallContext&) {
     else if (kindText == "annual" || kindText == "ANNUAL") kind = ChangeKind::Annual;
     else throw InputError(fmt::format("kind must be \"pct\", \"log\" or \"annual\", got \"{}\"", kindText));
     const Frequency f = frequencyArg(a[3]);
-    const std::vector<double> v =
-        indexChange(numberColumn(index, 0), static_cast<int>(lagValue), kind, f);
+    ChangeOptions o;
+    o.lag = static_cast<int>(lagValue);
+    o.kind = kind;
+    o.freq = f;
+    const std::vector<double> v = indexChange(numberColumn(index, 0), o).values;
     OutTable out;
     for (double x : v) {
         out.addRow();
@@ -110,7 +113,7 @@ OutTable adjust(const std::vector<Arg>& a, const CallContext& ctx) {
         try {
             if (!p.isNumber()) throw InputError("price is not a number");
             out.num(adjustPrice(s.series, p.number, cellDate(sale.at(i), ctx),
-                                cellDate(target.at(i), ctx)));
+                                cellDate(target.at(i), ctx)).price);
         } catch (const InputError& e) {
             out.text(std::string("Lintel: ") + e.what());
         }

@@ -82,8 +82,8 @@ void readRepeatOptions(RepeatSalesOptions& o, const OptionBag& opts) {
     o.maxRate = opts.number("maxrate", 1.0);
     const long chain = opts.integer("chain", 0, 0);
     if (chain > 1) throw InputError(fmt::format("chain must be 0 or 1, got {}", chain));
-    o.chain = static_cast<int>(chain);
-    o.chainInit = intOption(opts, "init");
+    o.chain = chain == 1;
+    if (const int init = intOption(opts, "init"); init > 0) o.chainInit = init;  // 0: default
 }
 
 // An option value as a one-cell argument, so freq= and base= in RSPAIRS's options read (and

@@ -47,6 +47,33 @@ CharacteristicColumn classifyColumn(std::string name, const std::vector<double>&
 }
 
 namespace {
+bool contains(const std::vector<int>& v, int x) {
+    return std::find(v.begin(), v.end(), x) != v.end();
+}
+}  // namespace
+
+void HedonicOptions::validate() const {
+    IndexOptions::validate();
+    if (window < 0 || window == 1)
+        throw InputError(fmt::format(
+            "window must be 0 (pooled) or at least 2 periods, got {}", window));
+    auto check = [](const std::vector<int>& v, const char* key) {
+        for (int c : v)
+            if (c < 1)
+                throw InputError(fmt::format(
+                    "{}: column {} lies outside the characteristics (columns count from 1)",
+                    key, c));
+    };
+    check(logColumns, "log");
+    check(categoricalColumns, "categorical");
+    for (int c : logColumns)
+        if (contains(categoricalColumns, c))
+            throw InputError(fmt::format("column {} cannot be both log and categorical", c));
+    if (!(collinearTolerance > 0 && collinearTolerance < 1))
+        throw InputError("internal: collinearTolerance must lie in (0, 1)");
+}
+
+namespace {
 
 using Eigen::Index;
 using Eigen::MatrixXd;
@@ -98,28 +125,16 @@ struct Design {
     std::size_t count(int p) const { return start[p + 1] - start[p]; }
 };
 
-bool contains(const std::vector<int>& v, int x) {
-    return std::find(v.begin(), v.end(), x) != v.end();
-}
-
-void validateOptions(const HedonicOptions& o, std::size_t nCols) {
-    validateCommon(o);
-    if (o.window < 0 || o.window == 1)
-        throw InputError(fmt::format(
-            "window must be 0 (pooled) or at least 2 periods, got {}", o.window));
+// The log and categorical columns against the characteristics given.
+void checkColumns(const HedonicOptions& o, std::size_t nCols) {
     auto check = [&](const std::vector<int>& v, const char* key) {
         for (int c : v)
-            if (c < 1 || static_cast<std::size_t>(c) > nCols)
+            if (static_cast<std::size_t>(c) > nCols)
                 throw InputError(fmt::format(
                     "{}: column {} lies outside the characteristics (1..{})", key, c, nCols));
     };
     check(o.logColumns, "log");
     check(o.categoricalColumns, "categorical");
-    for (int c : o.logColumns)
-        if (contains(o.categoricalColumns, c))
-            throw InputError(fmt::format("column {} cannot be both log and categorical", c));
-    if (!(o.collinearTolerance > 0 && o.collinearTolerance < 1))
-        throw InputError("internal: collinearTolerance must lie in (0, 1)");
 }
 
 std::string columnName(const CharacteristicColumn& c, std::size_t j) {
@@ -129,7 +144,8 @@ std::string columnName(const CharacteristicColumn& c, std::size_t j) {
 Design buildDesign(const HedonicInput& in, const HedonicOptions& o) {
     const auto& chars = in.characteristics;
     const std::size_t n = in.sales.date.size();
-    validateOptions(o, chars.size());
+    o.validate();
+    checkColumns(o, chars.size());
     for (std::size_t j = 0; j < chars.size(); ++j) {
         const auto& c = chars[j];
         if (c.numeric.size() != n && c.text.size() != n)

@@ -71,16 +71,26 @@ enum class HedonicStdErr { Classical, HC1 };
 enum class Retransform { Smearing, Lognormal };
 
 struct HedonicOptions : IndexOptions {
-    int window = 0;                         // window: 0 pooled (default); k >= 2 rolling
+    // IndexOptions: freq ("M"), base (first period with a value), minsales (1): a period with
+    // fewer sales shows no value but its sales stay in the fit, level (0.95).
+    int window = 0;                         // window: 0 (default) one pooled fit over all
+                                            // periods; k >= 2 rolling windows of k periods
     HedonicBias bias = HedonicBias::None;   // bias: "none" (default) or "kennedy"
     HedonicStdErr se = HedonicStdErr::Classical;  // se: "classical" (default) or "hc1"
-    std::vector<int> logColumns;            // log: 1-based columns whose logs enter; none
+    std::vector<int> logColumns;            // log: 1-based columns whose logs enter;
+                                            // default none
     std::vector<int> categoricalColumns;    // categorical: 1-based numeric columns treated as
-                                            // categories; none (text columns always are)
+                                            // categories; default none (text columns
+                                            // always are)
     Retransform retransform = Retransform::Smearing;  // retransform (REFHOMEVALUE only):
                                             // "smearing" (Duan 1983, default) or "lognormal"
     double collinearTolerance = 1e-9;       // (no key) pivot of the scaled A below which a
                                             // term counts as collinear with earlier terms
+
+    // IndexOptions::validate, then window, log and categorical (columns >= 1, not both log
+    // and categorical) and the tolerance. Whether the columns exist is checked against the
+    // input by the estimators. Throws InputError.
+    void validate() const;
 };
 
 enum class TermKind { Intercept, Characteristic, Period };

@@ -43,8 +43,14 @@ double snrLambda(Frequency f) {
     return 1.0 / (4 * g * g);
 }
 
+void VolatilityOptions::validate() const {
+    if (lag < 1) throw InputError(fmt::format("lag must be 1 or more, got {}", lag));
+}
+
+void SnrOptions::validate() const { validateLambda(lambda); }
+
 VolatilityResult indexVolatility(const std::vector<double>& index, const VolatilityOptions& o) {
-    if (o.lag < 1) throw InputError(fmt::format("lag must be 1 or more, got {}", o.lag));
+    o.validate();
     VolatilityResult r;
     analytics::countValues(index, true, r.diag);
     const std::vector<double> ch = analytics::logChanges(index, o.lag);
@@ -58,6 +64,7 @@ VolatilityResult indexVolatility(const std::vector<double>& index, const Volatil
 }
 
 SnrResult indexSnr(const std::vector<double>& index, const SnrOptions& o) {
+    o.validate();
     SnrResult r;
     analytics::countValues(index, true, r.diag);
     std::vector<double> x(index.size(), kNoValue);

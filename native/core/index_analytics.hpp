@@ -46,9 +46,12 @@ std::vector<double> logChanges(const std::vector<double>& index, int lag);
 
 // ---- INDEXVOLATILITY --------------------------------------------------------------------
 struct VolatilityOptions {
-    int lag = 1;                        // lag: periods spanned by each change, >= 1
-    bool annual = false;                // annual: scale to one year, sd * sqrt(p / lag)
+    int lag = 1;                        // lag: periods spanned by each change, >= 1; default 1
+    bool annual = false;                // annual: scale to one year, sd * sqrt(p / lag);
+                                        // default off
     Frequency freq = Frequency::Month;  // freq: "M" (default), "Q", "Y"; p for annual
+
+    void validate() const;  // lag >= 1
 };
 
 struct VolatilityResult {
@@ -66,8 +69,10 @@ double snrLambda(Frequency f);
 
 struct SnrOptions {
     Frequency freq = Frequency::Month;  // freq: "M" (default), "Q", "Y"; sets lambda
-    std::optional<double> lambda;       // lambda: HP smoothing; default snrLambda(freq)
+    std::optional<double> lambda;       // lambda: HP smoothing > 0; default snrLambda(freq)
                                         // (215.3 M, 2.914 Q, 0.0625 Y)
+
+    void validate() const;  // lambda positive when given
 };
 
 struct SnrResult {

@@ -165,10 +165,14 @@ std::size_t draw(std::mt19937_64& g, std::size_t n) {
 
 }  // namespace
 
+void MixOptions::validate() const {
+    IndexOptions::validate();
+    if (bootstrap && (reps < 20 || reps > 10000))
+        throw InputError(fmt::format("reps must lie between 20 and 10000, got {}", reps));
+}
+
 MixResult indexMix(const MixInput& in, const MixOptions& o) {
-    validateCommon(o);
-    if (o.bootstrap && (o.reps < 20 || o.reps > 10000))
-        throw InputError(fmt::format("reps must lie between 20 and 10000, got {}", o.reps));
+    o.validate();
     if (in.strata.empty()) throw InputError("strata needs at least one column");
     const std::size_t n = in.sales.date.size();
     for (std::size_t k = 0; k < in.strata.size(); ++k)

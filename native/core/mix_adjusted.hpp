@@ -66,8 +66,10 @@ struct MixOptions : IndexOptions {
     bool chain = false;                         // chain: yearly re-weighting, chain-linked
     EmptyStratumRule empty = EmptyStratumRule::Reweight;  // empty: "reweight" (default), "carry"
     bool bootstrap = false;       // bands: "none" (default) or "bootstrap"
-    int reps = 200;               // reps: bootstrap replicates, 20 .. 10000
-    unsigned long long seed = 1;  // seed: bootstrap random seed
+    int reps = 200;               // reps: bootstrap replicates, 20 .. 10000; default 200
+    unsigned long long seed = 1;  // seed: bootstrap random seed; default 1
+
+    void validate() const;  // IndexOptions::validate, then reps (with the bootstrap)
 };
 
 struct MixResult : IndexResult {

@@ -9,14 +9,18 @@
 
 namespace lintel {
 
+void RawIndexOptions::validate() const {
+    IndexOptions::validate();
+    if (!(trim >= 0.0 && trim < 0.5))
+        throw InputError(fmt::format("trim must lie in [0, 0.5), got {}", trim));
+}
+
 namespace {
 
 enum class Statistic { Mean, Median };
 
 IndexResult rawIndex(const SalesInput& sales, const RawIndexOptions& o, Statistic stat) {
-    validateCommon(o);
-    if (!(o.trim >= 0.0 && o.trim < 0.5))
-        throw InputError(fmt::format("trim must lie in [0, 0.5), got {}", o.trim));
+    o.validate();
     IndexResult r;
     const ScreenedSales s = screenSales(sales, o.freq, r.diag);
     const int T = s.axis.count;

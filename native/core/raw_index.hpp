@@ -15,7 +15,11 @@
 namespace lintel {
 
 struct RawIndexOptions : IndexOptions {
-    double trim = 0.0;  // trim (mean only): fraction cut from each tail, 0 <= trim < 0.5
+    // IndexOptions: freq ("M"), base (first period with a value), minsales (1), level (0.95).
+    double trim = 0.0;  // trim (mean only): fraction cut from each tail, 0 <= trim < 0.5;
+                        // default 0 (the plain mean)
+
+    void validate() const;  // IndexOptions::validate, then trim
 };
 
 IndexResult indexMean(const SalesInput& sales, const RawIndexOptions& options);

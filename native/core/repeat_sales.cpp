@@ -300,7 +300,7 @@ public:
             obs_.push_back(ob);
         }
         weight_.assign(bp_.size(), 0.0);
-        Levels lv = o_.chain == 1 ? chained() : joint();
+        Levels lv = o_.chain ? chained() : joint();
         assemble(lv);
     }
 
@@ -431,7 +431,7 @@ private:
     // ending in it, given the frozen values where they start.
     Levels chained() {
         Levels lv = emptyLevels();
-        const int init = std::min(T_, o_.chainInit > 0 ? o_.chainInit : 2 * ppy_);
+        const int init = std::min(T_, o_.initialPeriods());
         std::vector<Obs> window;
         std::vector<std::vector<Obs>> ending(T_);
         for (const Obs& ob : obs_) {
@@ -685,12 +685,12 @@ std::string RepeatSalesResult::summary() const {
 
 RepeatSalesResult repeatSalesIndex(const RepeatSalesInput& input,
                                    const RepeatSalesOptions& options, PairAudit* audit) {
-    rs_detail::validateOptions(options);
+    options.validate();
     return runEstimate(rs_detail::buildPairsFromSales(input, options), options, false, audit);
 }
 
 PairAudit repeatSalesPairs(const RepeatSalesInput& input, const RepeatSalesOptions& options) {
-    rs_detail::validateOptions(options);
+    options.validate();
     PairAudit a;
     runEstimate(rs_detail::buildPairsFromSales(input, options), options, true, &a);
     return a;
@@ -698,7 +698,7 @@ PairAudit repeatSalesPairs(const RepeatSalesInput& input, const RepeatSalesOptio
 
 RepeatSalesResult repeatSalesFromPairs(const RepeatSalesPairInput& input,
                                        const RepeatSalesOptions& options, PairAudit* audit) {
-    rs_detail::validateOptions(options);
+    options.validate();
     return runEstimate(rs_detail::buildPairsFromPairInput(input, options), options, false,
                        audit);
 }

@@ -14,7 +14,7 @@
 // - "cs2": as "cs" with the squared interval added in stage (2) (Calhoun 1996, "OFHEO house
 //   price indexes: HPI technical description", Office of Federal Housing Enterprise
 //   Oversight).
-// With chain = 1 published values are frozen: after an initial window estimated jointly,
+// With chain on, published values are frozen: after an initial window estimated jointly,
 // each later period is estimated from the pairs that end in it given the frozen values of
 // the periods where they start (our own construction, documented in
 // docs/methods/repeat_sales.md).
@@ -59,16 +59,24 @@ struct RepeatSalesOptions : IndexOptions {
     // IndexOptions: freq (default "M"), base (default: first period with a value), level
     // (0.95), minsales (1): a period informed by fewer used pairs gets no value; the pairs
     // that inform a period are those with a sale in it for jointly estimated periods
-    // (chain 0, and the initial window of chain 1) and those ending in it for chained periods.
-    RepeatSalesMethod method = RepeatSalesMethod::CaseShiller;  // method: "cs", "bmn", "cs2"
+    // (chain off, and the initial window of a chain) and those ending in it for chained
+    // periods.
+    RepeatSalesMethod method = RepeatSalesMethod::CaseShiller;  // method: "cs" (default),
+                                                                // "bmn", "cs2"
     double minHoldMonths = 6;  // minhold: pairs held fewer completed calendar months are
-                               // dropped ("flips"); 0 = off
+                               // dropped ("flips"); default 6; 0 turns the filter off
     double maxRate = 1.0;      // maxrate: pairs whose |annualised log return| exceeds it are
-                               // dropped; 0 = off
-    int chain = 0;             // chain: 0 re-estimates the whole history; 1 freezes values
-    int chainInit = 0;         // init (chain 1): periods estimated jointly before chaining
-                               // starts, counted from the first period of the data;
-                               // 0 = two years (24 months, 8 quarters, 2 years)
+                               // dropped; default 1; 0 turns the filter off
+    bool chain = false;        // chain: false (default, option 0) re-estimates the whole
+                               // history; true (option 1) freezes published values
+    std::optional<int> chainInit;  // init (with chain): periods estimated jointly before
+                                   // chaining starts, counted from the first period of the
+                                   // data, >= 1; default: two years (24 M, 8 Q, 2 Y)
+
+    // IndexOptions::validate, then minhold, maxrate and init. Throws InputError.
+    void validate() const;
+    // The initial window used: chainInit, or two years of periods.
+    int initialPeriods() const;
 };
 
 // Why a pair was not used. Codes are stable (RSPAIRS and the reference checks show them); the

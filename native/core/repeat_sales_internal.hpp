@@ -36,7 +36,6 @@ struct BuiltPairs {
     std::size_t size() const { return status.size(); }
 };
 
-void validateOptions(const RepeatSalesOptions& o);
 BuiltPairs buildPairsFromSales(const RepeatSalesInput& in, const RepeatSalesOptions& o);
 BuiltPairs buildPairsFromPairInput(const RepeatSalesPairInput& in, const RepeatSalesOptions& o);
 

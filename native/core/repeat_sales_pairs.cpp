@@ -173,6 +173,20 @@ std::string pairReasonText(const PairReason& r) {
     return pairStatusText(r.status);
 }
 
+void RepeatSalesOptions::validate() const {
+    IndexOptions::validate();
+    if (!(minHoldMonths >= 0) || !std::isfinite(minHoldMonths))
+        throw InputError(fmt::format("minhold must be 0 or more months, got {}", minHoldMonths));
+    if (!(maxRate >= 0) || !std::isfinite(maxRate))
+        throw InputError(fmt::format("maxrate must be 0 (off) or positive, got {}", maxRate));
+    if (chainInit && *chainInit < 1)
+        throw InputError(fmt::format("init must be 1 or more periods, got {}", *chainInit));
+}
+
+int RepeatSalesOptions::initialPeriods() const {
+    return chainInit ? *chainInit : 2 * periodsPerYear(freq);
+}
+
 std::size_t PairCounts::droppedFor(const PairReason& reason) const {
     for (const auto& [r, c] : dropped)
         if (r == reason) return c;
@@ -272,17 +286,6 @@ std::vector<SalePair> auditRows(const BuiltPairs& bp) {
         p.reason = cache[k];
     }
     return out;
-}
-
-void validateOptions(const RepeatSalesOptions& o) {
-    validateCommon(o);
-    if (!(o.minHoldMonths >= 0) || !std::isfinite(o.minHoldMonths))
-        throw InputError(fmt::format("minhold must be 0 or more months, got {}", o.minHoldMonths));
-    if (!(o.maxRate >= 0) || !std::isfinite(o.maxRate))
-        throw InputError(fmt::format("maxrate must be 0 (off) or positive, got {}", o.maxRate));
-    if (o.chain != 0 && o.chain != 1)
-        throw InputError(fmt::format("chain must be 0 or 1, got {}", o.chain));
-    if (o.chainInit < 0) throw InputError(fmt::format("init must be 0 or more, got {}", o.chainInit));
 }
 
 BuiltPairs buildPairsFromSales(const RepeatSalesInput& in, const RepeatSalesOptions& o) {

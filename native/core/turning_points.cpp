@@ -63,25 +63,34 @@ Frequency resolveFrequency(const std::vector<double>& periods, const std::option
 
 }  // namespace
 
+void TurnsOptions::validate() const {
+    auto atLeast = [](const std::optional<int>& v, int minimum, const char* name) {
+        if (v && *v < minimum)
+            throw InputError(fmt::format("{} must be {} or more, got {}", name, minimum, *v));
+    };
+    atLeast(window, 1, "window");
+    atLeast(minPhase, 1, "minphase");
+    atLeast(minCycle, 1, "mincycle");
+    atLeast(ends, 0, "ends");
+}
+
 TurnsResult indexTurns(const TurnsInput& in, const TurnsOptions& o) {
+    o.validate();
     if (in.periods.size() != in.index.size())
         throw InputError(fmt::format("periods has {} rows, index has {}", in.periods.size(),
                                      in.index.size()));
     if (in.periods.empty()) throw InputError("periods holds no dates");
     TurnsResult r;
     r.freq = resolveFrequency(in.periods, o.freq);
-    auto pick = [&](int given, int m, int q, int y, const char* name) {
-        if (given >= 0) {
-            if (given < 1 && std::string(name) != "ends")
-                throw InputError(fmt::format("{} must be 1 or more, got {}", name, given));
-            return given;
-        }
+    // Defaults by frequency: Bry & Boschan monthly, Harding & Pagan quarterly, ours yearly.
+    auto pick = [&](const std::optional<int>& given, int m, int q, int y) {
+        if (given) return *given;
         return r.freq == Frequency::Month ? m : r.freq == Frequency::Quarter ? q : y;
     };
-    r.window = pick(o.window, 5, 2, 1, "window");
-    r.minPhase = pick(o.minPhase, 5, 2, 1, "minphase");
-    r.minCycle = pick(o.minCycle, 15, 5, 2, "mincycle");
-    r.ends = pick(o.ends, 6, 2, 1, "ends");
+    r.window = pick(o.window, 5, 2, 1);
+    r.minPhase = pick(o.minPhase, 5, 2, 1);
+    r.minCycle = pick(o.minCycle, 15, 5, 2);
+    r.ends = pick(o.ends, 6, 2, 1);
 
     const int n = static_cast<int>(in.index.size());
     r.diag.rowsIn = in.index.size();

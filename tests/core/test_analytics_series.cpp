@@ -201,7 +201,7 @@ BOOST_AUTO_TEST_CASE(leadlag_hand_computed_and_errors) {
     big.changeLag = 1;
     big.maxLag = 8;
     BOOST_CHECK_THROW(indexLeadLag({a, a}, big), InputError);
-    big.maxLag = -1;
+    big.maxLag.reset();
     const LeadLagResult shrunk = indexLeadLag({a, a}, big);
     BOOST_TEST(shrunk.rows.size() == 15u);  // lags -7 .. 7
 }

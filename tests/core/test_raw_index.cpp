@@ -5,7 +5,6 @@
 
 #include <cmath>
 
-#include "index_arithmetic.hpp"
 #include "raw_index.hpp"
 
 using namespace lintel;
@@ -72,39 +71,6 @@ BOOST_AUTO_TEST_CASE(rows_dropped_with_reasons) {
                "2 non-positive price, 1 excluded by include");
     in.include.assign(6, 0);
     BOOST_CHECK_THROW(indexMean(in, RawIndexOptions{}), InputError);  // no usable sale
-}
-
-BOOST_AUTO_TEST_CASE(index_arithmetic_formulas) {
-    // Common practice, no source: rebase 100 I/I_b, change 100 (I_t/I_{t-k} - 1),
-    // log 100 ln(I_t/I_{t-k}), annualised 100 ((I_t/I_{t-k})^(p/k) - 1), P I_target/I_sale.
-    const std::vector<double> starts = {serialFromCivil({2024, 1, 1}), serialFromCivil({2024, 4, 1}),
-                                        serialFromCivil({2024, 7, 1}), serialFromCivil({2024, 10, 1})};
-    const IndexSeries s = IndexSeries::fromColumns(starts, {100, 110, kNoValue, 121});
-    BOOST_TEST((s.freq == Frequency::Quarter));
-    const auto rb = rebaseIndex(s, serialFromCivil({2024, 5, 20}));
-    BOOST_TEST(rb[1] == 100.0);
-    BOOST_TEST(rb[3] == 110.0);
-    BOOST_TEST(std::isnan(rb[2]));
-    const auto pct = indexChange(s.value, 1, ChangeKind::Percent, Frequency::Quarter);
-    BOOST_TEST(std::isnan(pct[0]));
-    BOOST_TEST(pct[1] == 10.0, boost::test_tools::tolerance(1e-12));
-    BOOST_TEST(std::isnan(pct[2]));
-    BOOST_TEST(std::isnan(pct[3]));  // the previous row has no value
-    const auto ann = indexChange(s.value, 2, ChangeKind::Annual, Frequency::Quarter);
-    // 100 -> 121 over 2 quarters: 1.21^(4/2) = 1.4641 -> 46.41 %
-    BOOST_TEST(std::isnan(ann[2]));
-    const auto lg = indexChange({100, 110, 121}, 2, ChangeKind::Log, Frequency::Month);
-    BOOST_TEST(lg[2] == 100 * std::log(1.21), boost::test_tools::tolerance(1e-12));
-    const auto ann2 = indexChange({100, 110, 121}, 2, ChangeKind::Annual, Frequency::Quarter);
-    BOOST_TEST(ann2[2] == 46.41, boost::test_tools::tolerance(1e-12));
-    BOOST_TEST(adjustPrice(s, 200000, serialFromCivil({2024, 2, 10}), serialFromCivil({2024, 12, 31})) ==
-               242000.0, boost::test_tools::tolerance(1e-12));
-    BOOST_CHECK_EXCEPTION(adjustPrice(s, 1, serialFromCivil({2024, 8, 1}), starts[0]), InputError,
-                          [](const InputError& e) {
-                              return std::string(e.what()) ==
-                                     "saledate 2024-08-01 falls on period 2024-07-01 without an index value";
-                          });
-    BOOST_CHECK_THROW(IndexSeries::fromColumns({serialFromCivil({2024, 1, 15})}, {100}), InputError);
 }
 
 BOOST_AUTO_TEST_SUITE_END()

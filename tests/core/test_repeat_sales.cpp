@@ -123,7 +123,7 @@ BOOST_AUTO_TEST_CASE(hand_solved_chain) {
     // 2021 rests on one pair for one parameter: no residual degree of freedom, no band.
     Sales s = handExample();
     RepeatSalesOptions o = yearly();
-    o.chain = 1;
+    o.chain = true;
     o.chainInit = 1;
     const RepeatSalesResult r = repeatSalesIndex(s.in, o);
     BOOST_TEST(r.logIndex[1] == 0.10, boost::test_tools::tolerance(1e-12));
@@ -396,7 +396,7 @@ BOOST_AUTO_TEST_CASE(chain_never_revises_published_values) {
                                      RepeatSalesMethod::CaseShillerQuadratic}) {
         RepeatSalesOptions o;
         o.method = method;
-        o.chain = 1;
+        o.chain = true;
         RepeatSalesResult prev;
         bool havePrev = false;
         for (int cut = 30; cut <= 60; cut += 6) {  // data up to month `cut` (exclusive)
@@ -428,7 +428,7 @@ BOOST_AUTO_TEST_CASE(chain_never_revises_published_values) {
         }
         // The joint estimate on the same cuts does revise (so the check above can fail).
         RepeatSalesOptions joint = o;
-        joint.chain = 0;
+        joint.chain = false;
         RepeatSalesInput a, b;
         for (const Row& r : rows) {
             for (RepeatSalesInput* in : {&a, &b}) {
@@ -457,7 +457,7 @@ BOOST_AUTO_TEST_CASE(chain_unreached_and_thin_periods) {
     s.add("C", day(2013, 4, 5), 100).add("C", day(2015, 6, 5), 103);  // 2013 (no value) -> 2015
     s.add("D", day(2010, 4, 5), 100).add("D", day(2014, 6, 5), 120);  // 2010 -> 2014
     RepeatSalesOptions o = yearly();
-    o.chain = 1;
+    o.chain = true;
     o.chainInit = 1;
     PairAudit r_audit;
     const RepeatSalesResult r = repeatSalesIndex(s.in, o, &r_audit);
@@ -607,8 +607,11 @@ BOOST_AUTO_TEST_CASE(errors_in_the_users_words) {
     bad.maxRate = NAN;
     BOOST_TEST(message(s.in, bad).find("maxrate") == 0);
     bad = o;
-    bad.chain = 2;
-    BOOST_TEST(message(s.in, bad) == "chain must be 0 or 1, got 2");
+    bad.chainInit = 0;
+    BOOST_TEST(message(s.in, bad) == "init must be 1 or more periods, got 0");
+    BOOST_CHECK_THROW(bad.validate(), InputError);  // the same check on its own
+    bad.chainInit = 1;
+    BOOST_CHECK_NO_THROW(bad.validate());
     bad = o;
     bad.level = 1.5;
     BOOST_TEST(message(s.in, bad).find("level") == 0);
@@ -683,7 +686,9 @@ BOOST_AUTO_TEST_CASE(method_names) {
     const RepeatSalesOptions o;
     BOOST_TEST(o.minHoldMonths == 6.0);
     BOOST_TEST(o.maxRate == 1.0);
-    BOOST_TEST(o.chain == 0);
+    BOOST_TEST(!o.chain);
+    BOOST_TEST(!o.chainInit.has_value());
+    BOOST_TEST(o.initialPeriods() == 24);  // two years of months
     BOOST_TEST((o.method == RepeatSalesMethod::CaseShiller));
 }
 

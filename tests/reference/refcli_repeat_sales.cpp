@@ -36,8 +36,8 @@ lintel::RepeatSalesOptions options(const refcli::Args& a) {
     o.method = *m;
     o.minHoldMonths = refcli::number(a, "minhold", o.minHoldMonths);
     o.maxRate = refcli::number(a, "maxrate", o.maxRate);
-    o.chain = static_cast<int>(refcli::number(a, "chain", 0));
-    o.chainInit = static_cast<int>(refcli::number(a, "init", 0));
+    o.chain = refcli::number(a, "chain", 0) != 0;
+    if (const double init = refcli::number(a, "init", 0); init > 0) o.chainInit = static_cast<int>(init);
     o.minSales = static_cast<std::size_t>(refcli::number(a, "minsales", 1));
     o.level = refcli::number(a, "level", 0.95);
     return o;
