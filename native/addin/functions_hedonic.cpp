@@ -164,12 +164,13 @@ OutTable refHomeValue(const std::vector<Arg>& a, const CallContext& ctx) {
     constexpr std::size_t kWidth = 4;
     OutTable out;
     titleRow(out, opts, {"period", "value", "lower", "upper"});
-    for (int i = 0; i < r.axis.count; ++i) {
+    const IndexTable& tb = r.table;
+    for (int i = 0; i < tb.axis.count; ++i) {
         out.addRow();
-        out.num(r.axis.start(i) - ctx.dateOffset);
-        out.num(r.value[i]);
-        out.num(r.lower[i]);
-        out.num(r.upper[i]);
+        out.num(tb.axis.start(i) - ctx.dateOffset);
+        out.num(tb.index[i]);  // the home's value
+        out.num(tb.lower[i]);
+        out.num(tb.upper[i]);
     }
     if (opts.flag("notes", false)) {
         for (const auto& c : r.home) {

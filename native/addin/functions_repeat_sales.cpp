@@ -116,7 +116,7 @@ OutTable chainRs(const std::vector<Arg>& a, const CallContext& ctx) {
     readRepeatOptions(o, opts);
     const RepeatSalesInput in = readInput(a, opts, ctx);
     const RepeatSalesResult r = repeatSalesIndex(in, o);
-    OutTable out = indexTableCells(IndexResult{r.table, r.diag}, opts, ctx, "pairs");
+    OutTable out = indexTableCells(r, opts, ctx, "pairs");
     if (opts.flag("notes", false)) labelTextRow(out, "pairs", r.pairCounts.summary(), 5);
     return out;
 }

@@ -922,8 +922,9 @@ RefHomeResult referenceHomeValue(const HedonicInput& input, const HomeInput& hom
     const Chain C = buildChain(D, o, o.retransform == Retransform::Smearing, out.diag);
     const int T = D.T;
     const int b = resolveBase(D.axis, C.L, o);
-    out.axis = D.axis;
-    out.basePosition = b;
+    IndexTable& tb = out.table;
+    tb.axis = D.axis;
+    tb.basePosition = b;
 
     // The home: given cells, blanks from the base period's typical home.
     VectorXd x = VectorXd::Zero(D.K());
@@ -989,11 +990,11 @@ RefHomeResult referenceHomeValue(const HedonicInput& input, const HomeInput& hom
         out.home.push_back(std::move(cell));
     }
 
-    out.value.assign(T, kNoValue);
-    out.lower.assign(T, kNoValue);
-    out.upper.assign(T, kNoValue);
-    out.count.resize(T);
-    for (int t = 0; t < T; ++t) out.count[t] = D.count(t);
+    tb.index.assign(T, kNoValue);
+    tb.lower.assign(T, kNoValue);
+    tb.upper.assign(T, kNoValue);
+    tb.count.resize(T);
+    for (int t = 0; t < T; ++t) tb.count[t] = D.count(t);
     for (int t = 0; t < T; ++t) {
         if (!hasValue(C.L[t])) continue;
         const WindowFit& F = C.fits[C.window[t]];
@@ -1001,12 +1002,12 @@ RefHomeResult referenceHomeValue(const HedonicInput& input, const HomeInput& hom
         const double v = F.covD(t, t) + x.dot(F.Vb() * x) + 2 * x.dot(F.covDB(t));
         const double factor =
             o.retransform == Retransform::Smearing ? F.smear : std::exp(F.s2 / 2);
-        out.value[t] = std::exp(m) * (std::isfinite(factor) ? factor : 1.0);
+        tb.index[t] = std::exp(m) * (std::isfinite(factor) ? factor : 1.0);
         const double q = F.quantile(o.level);
         if (std::isfinite(v) && std::isfinite(q) && std::isfinite(factor)) {
             const double h = q * std::sqrt(std::max(v, 0.0));
-            out.lower[t] = std::exp(m - h) * factor;
-            out.upper[t] = std::exp(m + h) * factor;
+            tb.lower[t] = std::exp(m - h) * factor;
+            tb.upper[t] = std::exp(m + h) * factor;
         }
     }
     {

@@ -148,14 +148,14 @@ struct HomeInput {
     std::vector<std::string> texts;
 };
 
-struct RefHomeResult {
-    PeriodAxis axis;
-    std::vector<double> value, lower, upper;  // kNoValue where the period has no value
-    std::vector<std::size_t> count;
-    int basePosition = 0;
+// REFHOMEVALUE: the index table's layout with the home's value in price units (not an
+// index) in table.index and its band in lower / upper (kNoValue where the period has no
+// value); count = sales per period; basePosition = the period whose typical home fills blank
+// cells of the home.
+struct RefHomeResult : IndexResult {
     std::vector<HomeCell> home;  // the home valued
     double retransformFactor = kNoValue;  // pooled: the factor; rolling: the latest window's
-    Diagnostics diag;
+    const std::vector<double>& value() const { return table.index; }
 };
 
 // INDEXHEDONIC.

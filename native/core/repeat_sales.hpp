@@ -148,10 +148,10 @@ struct RepeatSalesVarianceModel {
     std::size_t floored = 0;       // pairs whose fitted variance was raised to the floor
 };
 
-struct RepeatSalesResult {
-    IndexTable table;   // count = used pairs whose second sale is in the period
-    Diagnostics diag;   // rows: used = in at least one used pair; pair reasons in pairCounts
-                        // (pairs given directly: each pair is a row, dropped as PairNotUsed)
+// table.count = used pairs whose second sale is in the period; diag rows: used = in at least
+// one used pair, pair reasons in pairCounts (pairs given directly: each pair is a row,
+// dropped as PairNotUsed).
+struct RepeatSalesResult : IndexResult {
     PairCounts pairCounts;
     RepeatSalesVarianceModel variance;
     std::vector<double> logIndex;   // b_t - b_base per period; kNoValue where no value

@@ -440,7 +440,7 @@ BOOST_AUTO_TEST_CASE(reference_home_on_an_exact_fit) {
     for (int t = 0; t < 5; ++t) {
         const double want =
             std::exp(11 + delta(t) + 0.8 * std::log(100.0) + 0.1 - 0.2 - 0.04);
-        BOOST_TEST(r.value[t] == want, boost::test_tools::tolerance(1e-9));
+        BOOST_TEST(r.value()[t] == want, boost::test_tools::tolerance(1e-9));
     }
     BOOST_TEST(!r.home[0].typical);
     BOOST_TEST(r.home[2].level == "C");

@@ -146,7 +146,8 @@ const refcli::Register regHome("hedonic_home", [](const refcli::Table& t,
     const lintel::RefHomeResult r = lintel::referenceHomeValue(in, home, readOptions(a));
     printDiag(r.diag);
     refcli::printColumns({"period", "value", "lower", "upper", "sales"},
-                         {refcli::periodStarts(r.axis), r.value, r.lower, r.upper, refcli::asNumbers(r.count)});
+                         {refcli::periodStarts(r.table.axis), r.value(), r.table.lower, r.table.upper,
+                          refcli::asNumbers(r.table.count)});
     const std::string out = refcli::text(a, "homeout", "");
     if (!out.empty()) {
         std::ofstream f(out);
