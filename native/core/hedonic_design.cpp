@@ -98,10 +98,12 @@ std::string columnName(const CharacteristicColumn& c, std::size_t j) {
 
 }  // namespace
 
-Design buildDesign(const HedonicInput& in, const HedonicOptions& o) {
+namespace {
+
+// The characteristics against the dates (row counts, log of a text column).
+void checkCharacteristics(const HedonicInput& in, const HedonicOptions& o) {
     const auto& chars = in.characteristics;
     const std::size_t n = in.sales.date.size();
-    o.validate();
     checkColumns(o, chars.size());
     for (std::size_t j = 0; j < chars.size(); ++j) {
         const auto& c = chars[j];
@@ -114,12 +116,15 @@ Design buildDesign(const HedonicInput& in, const HedonicOptions& o) {
             throw InputError(fmt::format("log: column {} ({}) holds text, not numbers", j + 1,
                                          columnName(c, j)));
     }
+}
 
-    // Row check of the characteristics: blank or invalid, or the log of a non-positive value
-    // (the first failing column decides).
+// Row check of the characteristics: blank or invalid, or the log of a non-positive value
+// (the first failing column decides).
+RowProblems characteristicProblems(const HedonicInput& in, const HedonicOptions& o) {
+    const std::size_t n = in.sales.date.size();
     RowProblems problem(n);
-    for (std::size_t j = 0; j < chars.size(); ++j) {
-        const auto& c = chars[j];
+    for (std::size_t j = 0; j < in.characteristics.size(); ++j) {
+        const auto& c = in.characteristics[j];
         const bool logged = contains(o.logColumns, static_cast<int>(j + 1));
         if (c.numeric.size() == n) {
             for (std::size_t i = 0; i < n; ++i) {
@@ -133,33 +138,122 @@ Design buildDesign(const HedonicInput& in, const HedonicOptions& o) {
                 if (!problem[i] && c.text[i].empty()) problem[i] = DropReason::BadCharacteristic;
         }
     }
+    return problem;
+}
 
-    Design D;
-    ScreenedSales s = screenSales(in.sales, o.freq, D.diag, &problem);
-
-    // Sort the used rows by period (counting sort, stable in input order).
+// The used rows sorted by period (counting sort, stable in input order), with ln price.
+void sortByPeriod(const ScreenedSales& s, const SalesInput& sales, Design& D) {
     D.axis = s.axis;
     D.T = s.axis.count;
     const std::size_t m = s.rows.size();
-    D.start.assign(D.T + 1, 0);
-    for (int p : s.period) ++D.start[p + 1];
-    for (int t = 0; t < D.T; ++t) D.start[t + 1] += D.start[t];
-    {
-        std::vector<std::size_t> fillPos(D.start.begin(), D.start.end() - 1);
-        D.inputRow.resize(m);
-        D.period.resize(m);
-        for (std::size_t j = 0; j < m; ++j) {
-            const std::size_t at = fillPos[s.period[j]]++;
-            D.inputRow[at] = s.rows[j];
-            D.period[at] = s.period[j];
-        }
+    const auto T = static_cast<std::size_t>(D.T);
+    D.start.assign(T + 1, 0);
+    for (int p : s.period) ++D.start[static_cast<std::size_t>(p) + 1];
+    for (std::size_t t = 0; t < T; ++t) D.start[t + 1] += D.start[t];
+    std::vector<std::size_t> fillPos(D.start.begin(), D.start.end() - 1);
+    D.inputRow.resize(m);
+    D.period.resize(m);
+    for (std::size_t j = 0; j < m; ++j) {
+        const std::size_t at = fillPos[static_cast<std::size_t>(s.period[j])]++;
+        D.inputRow[at] = s.rows[j];
+        D.period[at] = s.period[j];
     }
     D.y.resize(m);
-    for (std::size_t r = 0; r < m; ++r) D.y[r] = std::log(in.sales.price[D.inputRow[r]]);
+    for (std::size_t r = 0; r < m; ++r) D.y[r] = std::log(sales.price[D.inputRow[r]]);
+}
+
+// Level codes of a text column: levels in sorted order.
+void textLevels(const CharacteristicColumn& c, const Design& D, Column& col) {
+    std::unordered_map<std::string, int> seen;
+    std::vector<std::string> names;
+    for (std::size_t r = 0; r < col.code.size(); ++r) {
+        auto [it, fresh] = seen.emplace(c.text[D.inputRow[r]], static_cast<int>(names.size()));
+        if (fresh) names.push_back(it->first);
+        col.code[r] = it->second;
+    }
+    std::vector<int> order(names.size());
+    for (std::size_t k = 0; k < order.size(); ++k) order[k] = static_cast<int>(k);
+    std::sort(order.begin(), order.end(), [&](int a, int b) {
+        return names[static_cast<std::size_t>(a)] < names[static_cast<std::size_t>(b)];
+    });
+    std::vector<int> rank(order.size());
+    for (std::size_t k = 0; k < order.size(); ++k) {
+        const auto at = static_cast<std::size_t>(order[k]);
+        rank[at] = static_cast<int>(k);
+        col.levels.push_back(names[at]);
+    }
+    for (auto& x : col.code) x = rank[static_cast<std::size_t>(x)];
+}
+
+// Level codes of a numeric column treated as categories: levels in numeric order, written
+// with keyText.
+void numberLevels(const CharacteristicColumn& c, const Design& D, Column& col) {
+    col.numericLevels = true;
+    std::map<double, int> seen;
+    for (std::size_t r = 0; r < col.code.size(); ++r) seen.emplace(c.numeric[D.inputRow[r]], 0);
+    int k = 0;
+    for (auto& [v, idx] : seen) {
+        idx = k++;
+        col.levelNumbers.push_back(v);
+        col.levels.push_back(keyText(v));
+    }
+    for (std::size_t r = 0; r < col.code.size(); ++r)
+        col.code[r] = seen.at(c.numeric[D.inputRow[r]]);
+}
+
+// A categorical column: its levels, the reference level (the most frequent; ties: the
+// first in sorted order) and one term per other level.
+void addCategorical(const CharacteristicColumn& c, std::size_t j, bool isText, Design& D,
+                    Column& col) {
+    col.code.resize(D.inputRow.size());
+    if (isText) textLevels(c, D, col);
+    else numberLevels(c, D, col);
+    if (col.levels.size() > kMaxLevels)
+        throw InputError(fmt::format(
+            "characteristics column {} ({}) has {} different values; a categorical "
+            "column may have at most {} (is it an id or an address?)",
+            j + 1, col.name, col.levels.size(), kMaxLevels));
+    col.levelCount.assign(col.levels.size(), 0);
+    for (int x : col.code) ++col.levelCount[static_cast<std::size_t>(x)];
+    col.reference = static_cast<int>(
+        std::max_element(col.levelCount.begin(), col.levelCount.end()) -
+        col.levelCount.begin());
+    col.termOfLevel.assign(col.levels.size(), -1);
+    for (std::size_t k = 0; k < col.levels.size(); ++k) {
+        if (static_cast<int>(k) == col.reference) continue;
+        col.termOfLevel[k] = static_cast<int>(D.terms.size());
+        D.terms.push_back({col.name + "=" + col.levels[k], static_cast<int>(j)});
+        ++col.termCount;
+    }
+    if (col.levels.size() == 1) D.singleLevel.push_back({col.name, "single level"});
+}
+
+// A numeric column: one term, its values (logged when asked) per sorted row.
+void addNumeric(const CharacteristicColumn& c, std::size_t j, Design& D, Column& col) {
+    const std::size_t m = D.inputRow.size();
+    col.value.resize(m);
+    for (std::size_t r = 0; r < m; ++r) {
+        const double v = c.numeric[D.inputRow[r]];
+        col.value[r] = col.logged ? std::log(v) : v;
+    }
+    D.terms.push_back({col.logged ? "log(" + col.name + ")" : col.name, static_cast<int>(j)});
+    col.termCount = 1;
+}
+
+}  // namespace
+
+Design buildDesign(const HedonicInput& in, const HedonicOptions& o) {
+    o.validate();
+    checkCharacteristics(in, o);
+    const RowProblems problem = characteristicProblems(in, o);
+    Design D;
+    const ScreenedSales s = screenSales(in.sales, o.freq, D.diag, &problem);
+    sortByPeriod(s, in.sales, D);
 
     // Columns and terms.
-    for (std::size_t j = 0; j < chars.size(); ++j) {
-        const auto& c = chars[j];
+    const std::size_t n = in.sales.date.size();
+    for (std::size_t j = 0; j < in.characteristics.size(); ++j) {
+        const auto& c = in.characteristics[j];
         Column col;
         col.name = columnName(c, j);
         const int number = static_cast<int>(j + 1);
@@ -167,70 +261,8 @@ Design buildDesign(const HedonicInput& in, const HedonicOptions& o) {
         col.categorical = isText || contains(o.categoricalColumns, number);
         col.logged = contains(o.logColumns, number);
         col.firstTerm = static_cast<int>(D.terms.size());
-        if (!col.categorical) {
-            col.value.resize(m);
-            for (std::size_t r = 0; r < m; ++r) {
-                const double v = c.numeric[D.inputRow[r]];
-                col.value[r] = col.logged ? std::log(v) : v;
-            }
-            D.terms.push_back({col.logged ? "log(" + col.name + ")" : col.name,
-                               static_cast<int>(j)});
-            col.termCount = 1;
-        } else {
-            col.code.resize(m);
-            if (isText) {
-                std::unordered_map<std::string, int> seen;
-                std::vector<std::string> names;
-                for (std::size_t r = 0; r < m; ++r) {
-                    auto [it, fresh] =
-                        seen.emplace(c.text[D.inputRow[r]], static_cast<int>(names.size()));
-                    if (fresh) names.push_back(it->first);
-                    col.code[r] = it->second;
-                }
-                std::vector<int> order(names.size());
-                for (std::size_t k = 0; k < order.size(); ++k) order[k] = static_cast<int>(k);
-                std::sort(order.begin(), order.end(),
-                          [&](int a, int b) { return names[a] < names[b]; });
-                std::vector<int> rank(order.size());
-                for (std::size_t k = 0; k < order.size(); ++k) {
-                    rank[order[k]] = static_cast<int>(k);
-                    col.levels.push_back(names[order[k]]);
-                }
-                for (auto& x : col.code) x = rank[x];
-            } else {
-                col.numericLevels = true;
-                std::map<double, int> seen;
-                for (std::size_t r = 0; r < m; ++r) seen.emplace(c.numeric[D.inputRow[r]], 0);
-                int k = 0;
-                for (auto& [v, idx] : seen) {
-                    idx = k++;
-                    col.levelNumbers.push_back(v);
-                    col.levels.push_back(keyText(v));
-                }
-                for (std::size_t r = 0; r < m; ++r)
-                    col.code[r] = seen.at(c.numeric[D.inputRow[r]]);
-            }
-            if (col.levels.size() > kMaxLevels)
-                throw InputError(fmt::format(
-                    "characteristics column {} ({}) has {} different values; a categorical "
-                    "column may have at most {} (is it an id or an address?)",
-                    j + 1, col.name, col.levels.size(), kMaxLevels));
-            col.levelCount.assign(col.levels.size(), 0);
-            for (int x : col.code) ++col.levelCount[x];
-            // Reference: the most frequent level (ties: the first in sorted order).
-            col.reference = static_cast<int>(
-                std::max_element(col.levelCount.begin(), col.levelCount.end()) -
-                col.levelCount.begin());
-            col.termOfLevel.assign(col.levels.size(), -1);
-            for (std::size_t k = 0; k < col.levels.size(); ++k) {
-                if (static_cast<int>(k) == col.reference) continue;
-                col.termOfLevel[k] = static_cast<int>(D.terms.size());
-                D.terms.push_back({col.name + "=" + col.levels[k], static_cast<int>(j)});
-                ++col.termCount;
-            }
-            if (col.levels.size() == 1)
-                D.singleLevel.push_back({col.name, "single level"});
-        }
+        if (col.categorical) addCategorical(c, j, isText, D, col);
+        else addNumeric(c, j, D, col);
         D.cols.push_back(std::move(col));
     }
     if (D.terms.size() > kMaxTerms)

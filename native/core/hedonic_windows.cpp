@@ -42,37 +42,60 @@ std::vector<DroppedTerm> allDropped(const Design& D, const WindowFit& F) {
     return v;
 }
 
-Chain buildChain(const Design& D, const HedonicOptions& o, bool wantSmear,
-                 Diagnostics& diag) {
-    Chain C;
-    const int T = D.T;
-    C.L.assign(T, kNoValue);
-    C.anchor.assign(T, -1);
-    C.linkDf.assign(T, kInf);
-    C.parent.assign(T, -1);
-    C.window.assign(T, -1);
-    auto eligible = [&](int p) { return D.count(p) >= o.minSales; };
+namespace {
 
-    if (o.window == 0 || o.window >= T) {
-        if (o.window >= T && T > 1)
-            diag.warn(fmt::format("window {} covers all {} periods: the pooled fit is used",
-                                  o.window, T));
-        C.fits.push_back(fitWindow(D, 0, T - 1, o, wantSmear));
-        for (int p = 0; p < T; ++p)
-            if (eligible(p)) {
-                C.L[p] = C.fits[0].d(p);
-                C.anchor[p] = p;
-                C.window[p] = 0;
-            }
-        warnDropped(diag, allDropped(D, C.fits[0]), "");
-        if (!(C.fits[0].df > 0)) diag.warn("no residual degrees of freedom: no bands");
-        return C;
+// One pooled fit over all periods.
+void pooledChain(const Design& D, const HedonicOptions& o, bool wantSmear, Diagnostics& diag,
+                 Chain& C) {
+    const int T = D.T;
+    if (o.window >= T && T > 1)
+        diag.warn(fmt::format("window {} covers all {} periods: the pooled fit is used",
+                              o.window, T));
+    C.fits.push_back(fitWindow(D, 0, T - 1, o, wantSmear));
+    for (int p = 0; p < T; ++p)
+        if (D.count(p) >= o.minSales) {
+            C.L[p] = C.fits[0].d(p);
+            C.anchor[p] = p;
+            C.window[p] = 0;
+        }
+    warnDropped(diag, allDropped(D, C.fits[0]), "");
+    if (!(C.fits[0].df > 0)) diag.warn("no residual degrees of freedom: no bands");
+}
+
+// What the rolling windows report: terms dropped (name -> why, windows), windows without
+// residual df, windows stretched over a gap.
+struct RollingNotes {
+    std::map<std::string, std::pair<std::string, int>> droppedCount;
+    std::size_t noDf = 0, stretched = 0;
+};
+
+void warnRolling(const Design& D, const Chain& C, const RollingNotes& n, Diagnostics& diag) {
+    if (n.stretched)
+        diag.warn(fmt::format("{} window(s) stretched back over a gap to the latest period with "
+                              "a value", n.stretched));
+    if (!D.singleLevel.empty()) warnDropped(diag, D.singleLevel, "");
+    if (!n.droppedCount.empty()) {
+        std::string s;
+        for (const auto& [name, w] : n.droppedCount)
+            s += fmt::format("{}{} ({}, {} window(s))", s.empty() ? "" : ", ", name, w.first,
+                             w.second);
+        diag.warn(fmt::format("dropped term(s) in some of {} windows: {}", C.fits.size(), s));
     }
+    if (n.noDf)
+        diag.warn(fmt::format("{} window(s) without residual degrees of freedom: no bands there",
+                              n.noDf));
+}
+
+// Rolling windows of k periods: the root window publishes its periods, each later window
+// links its last period e to the latest earlier period s with a value.
+void rollingChain(const Design& D, const HedonicOptions& o, bool wantSmear, Diagnostics& diag,
+                  Chain& C) {
+    const int T = D.T;
+    auto eligible = [&](int p) { return D.count(p) >= o.minSales; };
     C.pooled = false;
     const int k = o.window;
     bool rooted = false;
-    std::map<std::string, std::pair<std::string, int>> droppedCount;
-    std::size_t noDf = 0, stretched = 0;
+    RollingNotes notes;
     for (int e = k - 1; e < T; ++e) {
         if (rooted && !eligible(e)) continue;
         if (!rooted) {
@@ -96,7 +119,7 @@ Chain buildChain(const Design& D, const HedonicOptions& o, bool wantSmear,
             int s = e - 1;
             while (!hasValue(C.L[s])) --s;  // exists: the root published one
             const int p0 = std::min(e - k + 1, s);
-            if (p0 < e - k + 1) ++stretched;
+            if (p0 < e - k + 1) ++notes.stretched;
             C.fits.push_back(fitWindow(D, p0, e, o, wantSmear));
             const WindowFit& F = C.fits.back();
             C.L[e] = C.L[s] + (F.d(e) - F.d(s));
@@ -106,26 +129,29 @@ Chain buildChain(const Design& D, const HedonicOptions& o, bool wantSmear,
             C.window[e] = static_cast<int>(C.fits.size()) - 1;
         }
         const WindowFit& F = C.fits.back();
-        if (!(F.df > 0)) ++noDf;
+        if (!(F.df > 0)) ++notes.noDf;
         for (const auto& t : F.dropped) {
-            auto& entry = droppedCount[t.name];
+            auto& entry = notes.droppedCount[t.name];
             entry.first = t.why;
             ++entry.second;
         }
     }
-    if (stretched)
-        diag.warn(fmt::format("{} window(s) stretched back over a gap to the latest period with "
-                              "a value", stretched));
-    if (!D.singleLevel.empty()) warnDropped(diag, D.singleLevel, "");
-    if (!droppedCount.empty()) {
-        std::string s;
-        for (const auto& [name, w] : droppedCount)
-            s += fmt::format("{}{} ({}, {} window(s))", s.empty() ? "" : ", ", name, w.first,
-                             w.second);
-        diag.warn(fmt::format("dropped term(s) in some of {} windows: {}", C.fits.size(), s));
-    }
-    if (noDf) diag.warn(fmt::format("{} window(s) without residual degrees of freedom: no "
-                                    "bands there", noDf));
+    warnRolling(D, C, notes, diag);
+}
+
+}  // namespace
+
+Chain buildChain(const Design& D, const HedonicOptions& o, bool wantSmear,
+                 Diagnostics& diag) {
+    Chain C;
+    const auto T = static_cast<std::size_t>(D.T);
+    C.L.assign(T, kNoValue);
+    C.anchor.assign(T, -1);
+    C.linkDf.assign(T, kInf);
+    C.parent.assign(T, -1);
+    C.window.assign(T, -1);
+    if (o.window == 0 || o.window >= D.T) pooledChain(D, o, wantSmear, diag, C);
+    else rollingChain(D, o, wantSmear, diag, C);
     return C;
 }
 
