@@ -288,7 +288,9 @@ std::vector<SalePair> auditRows(const BuiltPairs& bp) {
     return out;
 }
 
-BuiltPairs buildPairsFromSales(const RepeatSalesInput& in, const RepeatSalesOptions& o) {
+namespace {
+
+void checkLengths(const RepeatSalesInput& in) {
     const SalesInput& s = in.sales;
     const std::size_t n = s.date.size();
     if (in.id.size() != n || s.price.size() != n)
@@ -302,19 +304,120 @@ BuiltPairs buildPairsFromSales(const RepeatSalesInput& in, const RepeatSalesOpti
                                      s.include.size(), n));
     if (!s.emptyRow.empty() && s.emptyRow.size() != n)
         throw InputError("internal: emptyRow differs in length from the sales");
+}
 
+// The sequenced rows grouped by id: ids numbered in order of first appearance (out.ids),
+// rows of group g at order[start[g] .. start[g+1]) in input order (a stable counting sort).
+struct IdGroups {
+    std::vector<std::size_t> start, order;
+    std::vector<std::uint32_t> rowCode;  // per input row: its group, UINT32_MAX if unsequenced
+    std::size_t size() const { return start.size() - 1; }
+};
+
+IdGroups groupById(const std::vector<std::string_view>& ids, const std::vector<char>& sequenced,
+                   BuiltPairs& out) {
+    const std::size_t n = ids.size();
+    IdGroups G;
+    std::unordered_map<std::string_view, std::uint32_t> code;
+    code.reserve(n);
+    G.rowCode.assign(n, UINT32_MAX);
+    std::vector<std::size_t> groupSize;
+    for (std::size_t i = 0; i < n; ++i) {
+        if (!sequenced[i]) continue;
+        auto [it, fresh] = code.try_emplace(ids[i], static_cast<std::uint32_t>(groupSize.size()));
+        if (fresh) {
+            groupSize.push_back(0);
+            out.ids.push_back(ids[i]);
+        }
+        G.rowCode[i] = it->second;
+        ++groupSize[it->second];
+    }
+    const std::size_t groups = groupSize.size();
+    G.start.assign(groups + 1, 0);
+    for (std::size_t g = 0; g < groups; ++g) G.start[g + 1] = G.start[g] + groupSize[g];
+    G.order.resize(G.start[groups]);
+    std::vector<std::size_t> fill(G.start.begin(), G.start.end() - 1);
+    for (std::size_t i = 0; i < n; ++i)
+        if (G.rowCode[i] != UINT32_MAX) G.order[fill[G.rowCode[i]]++] = i;
+    return G;
+}
+
+// What the walk over one property's sales reads.
+struct Walk {
+    const RepeatSalesInput& in;
+    const RepeatSalesOptions& o;
+    const ScreenedSales& sc;        // problem: the screening reason of each row
+    const std::vector<char>& usable;
+    const std::vector<double>& day;  // whole-day serial per row
+    const std::vector<CivilDate>& civil;
+};
+
+// The sales of one property sorted by (day, row), walked day by day: on one day keep the first
+// usable row in input order (or the first row when none is usable), pair it with the kept sale
+// of the previous day, and list the others as duplicate pseudo pairs.
+void pairProperty(BuiltPairs& out, const Walk& w, std::uint32_t gid,
+                  std::vector<std::size_t>::iterator first,
+                  std::vector<std::size_t>::iterator last) {
+    const auto& day = w.day;
+    const auto& price = w.in.sales.price;
+    if (last - first > 1)
+        std::sort(first, last, [&](std::size_t a, std::size_t b) {
+            return day[a] != day[b] ? day[a] < day[b] : a < b;
+        });
+    std::size_t prevKept = 0;
+    bool havePrev = false;
+    for (auto it = first; it != last;) {
+        auto runEnd = it;
+        while (runEnd != last && day[*runEnd] == day[*it]) ++runEnd;
+        std::size_t keep = *it;
+        for (auto j = it; j != runEnd; ++j)
+            if (w.usable[*j]) {
+                keep = *j;
+                break;
+            }
+        bool changed = false;
+        if (!w.in.changed.empty())
+            for (auto j = it; j != runEnd; ++j) changed = changed || w.in.changed[*j];
+        if (havePrev) {
+            // A sequenced row (usable id and date) that is not usable carries its screening
+            // reason (price, include).
+            const std::size_t a = prevKept, b = keep;
+            addPair(out, a, b, gid, day[a], day[b], w.civil[a], w.civil[b], price[a], price[b],
+                    w.sc.problem[a], w.sc.problem[b], changed, w.o);
+        }
+        for (auto j = it; j != runEnd; ++j) {
+            if (*j == keep) continue;
+            addPair(out, keep, *j, gid, day[keep], day[*j], w.civil[keep], w.civil[*j],
+                    price[keep], price[*j], std::nullopt, std::nullopt, false, w.o);
+            out.status.back() = PairStatus::Duplicate;
+            out.realPair.back() = 0;
+            if (w.usable[*j]) {
+                out.rowUsable[*j] = 0;
+                out.diag.drop(DropReason::DuplicateSale);
+            }
+        }
+        prevKept = keep;
+        havePrev = true;
+        it = runEnd;
+    }
+}
+
+}  // namespace
+
+BuiltPairs buildPairsFromSales(const RepeatSalesInput& in, const RepeatSalesOptions& o) {
+    checkLengths(in);
+    const SalesInput& s = in.sales;
+    const std::size_t n = s.date.size();
     BuiltPairs out;
     out.sales = &in;
 
     // Row validity: the sales screening, a blank id being the extra check. The audit is built
     // even when no row is usable (every pair shows why it was dropped).
     std::vector<std::string_view> ids(n);
-    std::vector<char> idValid(n);
     RowProblems idProblem(n);
     for (std::size_t i = 0; i < n; ++i) {
         ids[i] = trimBlanks(in.id[i]);
-        idValid[i] = !ids[i].empty();
-        if (!idValid[i]) idProblem[i] = DropReason::BlankId;
+        if (ids[i].empty()) idProblem[i] = DropReason::BlankId;
     }
     std::vector<char> usable(n, 0);
     const ScreenedSales sc = screenRows(s, o.freq, out.diag, &idProblem);
@@ -322,100 +425,32 @@ BuiltPairs buildPairsFromSales(const RepeatSalesInput& in, const RepeatSalesOpti
     if (!sc.rows.empty()) out.axis = sc.axis;
 
     // Rows that take part in the sequence of their property: a usable id and date.
-    auto sequenced = [&](std::size_t i) {
-        return (s.emptyRow.empty() || !s.emptyRow[i]) && isUsableSerial(s.date[i]) && idValid[i];
-    };
-
-    // Number the ids in order of first appearance.
-    std::unordered_map<std::string_view, std::uint32_t> code;
-    code.reserve(n);
-    std::vector<std::uint32_t> rowCode(n, UINT32_MAX);
-    std::vector<std::size_t> groupSize;
-    for (std::size_t i = 0; i < n; ++i) {
-        if (!sequenced(i)) continue;
-        auto [it, fresh] = code.try_emplace(ids[i], static_cast<std::uint32_t>(groupSize.size()));
-        if (fresh) {
-            groupSize.push_back(0);
-            out.ids.push_back(ids[i]);
-        }
-        rowCode[i] = it->second;
-        ++groupSize[it->second];
-    }
-    // Counting sort of rows by id number (stable: rows of one id stay in input order).
-    const std::size_t groups = groupSize.size();
-    std::vector<std::size_t> start(groups + 1, 0);
-    for (std::size_t g = 0; g < groups; ++g) start[g + 1] = start[g] + groupSize[g];
-    std::vector<std::size_t> order(start[groups]);
-    {
-        std::vector<std::size_t> fill(start.begin(), start.end() - 1);
-        for (std::size_t i = 0; i < n; ++i)
-            if (rowCode[i] != UINT32_MAX) order[fill[rowCode[i]]++] = i;
-    }
-
-    std::vector<double> day(n, 0.0), sequencedDays;
-    sequencedDays.reserve(order.size());
+    std::vector<char> sequenced(n);
     for (std::size_t i = 0; i < n; ++i)
-        if (rowCode[i] != UINT32_MAX) {
+        sequenced[i] = (s.emptyRow.empty() || !s.emptyRow[i]) && isUsableSerial(s.date[i]) &&
+                       !ids[i].empty();
+    IdGroups G = groupById(ids, sequenced, out);
+
+    // Whole days and civil dates of the sequenced rows.
+    std::vector<double> day(n, 0.0), sequencedDays;
+    sequencedDays.reserve(G.order.size());
+    for (std::size_t i = 0; i < n; ++i)
+        if (sequenced[i]) {
             day[i] = std::floor(s.date[i]);
             sequencedDays.push_back(day[i]);
         }
     const CivilDays civilOf(sequencedDays);
     std::vector<CivilDate> civil(n);
     for (std::size_t i = 0; i < n; ++i)
-        if (rowCode[i] != UINT32_MAX) civil[i] = civilOf(day[i]);
+        if (sequenced[i]) civil[i] = civilOf(day[i]);
 
     out.rowUsable = usable;
-    reserve(out, order.size() > groups ? order.size() - groups : 0);
-    // A sequenced row (usable id and date) that is not usable: its screening reason (price,
-    // include).
-    auto problem = [&](std::size_t r) { return sc.problem[r]; };
-
-    std::size_t prevKept = 0;
-    for (std::size_t g = 0; g < groups; ++g) {
-        auto first = order.begin() + static_cast<std::ptrdiff_t>(start[g]);
-        auto last = order.begin() + static_cast<std::ptrdiff_t>(start[g + 1]);
-        if (last - first > 1)
-            std::sort(first, last, [&](std::size_t a, std::size_t b) {
-                return day[a] != day[b] ? day[a] < day[b] : a < b;
-            });
-        const std::uint32_t gid = static_cast<std::uint32_t>(g);
-        bool havePrev = false;
-        // Walk the sales day by day; on one day keep the first usable row in input order (or
-        // the first row when none is usable), list the others as duplicate pseudo pairs.
-        for (auto it = first; it != last;) {
-            auto runEnd = it;
-            while (runEnd != last && day[*runEnd] == day[*it]) ++runEnd;
-            std::size_t keep = *it;
-            for (auto j = it; j != runEnd; ++j)
-                if (usable[*j]) {
-                    keep = *j;
-                    break;
-                }
-            bool changed = false;
-            if (!in.changed.empty())
-                for (auto j = it; j != runEnd; ++j) changed = changed || in.changed[*j];
-            if (havePrev) {
-                const std::size_t a = prevKept, b = keep;
-                addPair(out, a, b, gid, day[a], day[b], civil[a], civil[b], s.price[a],
-                        s.price[b], problem(a), problem(b), changed, o);
-            }
-            for (auto j = it; j != runEnd; ++j) {
-                if (*j == keep) continue;
-                addPair(out, keep, *j, gid, day[keep], day[*j], civil[keep], civil[*j],
-                        s.price[keep], s.price[*j], std::nullopt, std::nullopt, false,
-                        o);
-                out.status.back() = PairStatus::Duplicate;
-                out.realPair.back() = 0;
-                if (usable[*j]) {
-                    out.rowUsable[*j] = 0;
-                    out.diag.drop(DropReason::DuplicateSale);
-                }
-            }
-            prevKept = keep;
-            havePrev = true;
-            it = runEnd;
-        }
-    }
+    reserve(out, G.order.size() > G.size() ? G.order.size() - G.size() : 0);
+    const Walk walk{in, o, sc, usable, day, civil};
+    for (std::size_t g = 0; g < G.size(); ++g)
+        pairProperty(out, walk, static_cast<std::uint32_t>(g),
+                     G.order.begin() + static_cast<std::ptrdiff_t>(G.start[g]),
+                     G.order.begin() + static_cast<std::ptrdiff_t>(G.start[g + 1]));
     out.weight.assign(out.size(), 0.0);
     return out;
 }

@@ -61,6 +61,138 @@ Frequency resolveFrequency(const std::vector<double>& periods, const std::option
     return *inferred;
 }
 
+// The index as the rules see it: values, period keys, rows with a value.
+struct Series {
+    const double* y = nullptr;
+    std::vector<long> key;  // per row
+    std::vector<int> obs;   // rows with a value
+};
+
+// 1. Candidates: a peak is strictly higher than every value in the window before it and at
+// least as high as every value in the window after it; troughs alike; none near the ends.
+std::vector<Turn> candidates(const Series& S, const TurnsResult& r) {
+    const double* y = S.y;
+    const auto& key = S.key;
+    const auto& obs = S.obs;
+    const long firstKey = key[obs.front()], lastKey = key[obs.back()];
+    std::vector<Turn> turns;
+    for (std::size_t m = 0; m < obs.size(); ++m) {
+        const int i = obs[m];
+        if (key[i] - firstKey < r.ends || lastKey - key[i] < r.ends) continue;
+        bool peak = true, trough = true, left = false, right = false;
+        for (std::size_t j = m; j-- > 0 && key[i] - key[obs[j]] <= r.window;) {
+            left = true;
+            const double v = y[obs[j]];
+            if (!(v < y[i])) peak = false;
+            if (!(v > y[i])) trough = false;
+        }
+        for (std::size_t j = m + 1; j < obs.size() && key[obs[j]] - key[i] <= r.window; ++j) {
+            right = true;
+            const double v = y[obs[j]];
+            if (!(v <= y[i])) peak = false;
+            if (!(v >= y[i])) trough = false;
+        }
+        if (!left || !right) continue;
+        if (peak) turns.push_back({i, key[i], y[i], true});
+        else if (trough) turns.push_back({i, key[i], y[i], false});
+    }
+    return turns;
+}
+
+// a. Alternation: of consecutive peaks keep the highest, of consecutive troughs the lowest.
+void alternate(std::vector<Turn>& turns, TurnsResult& r) {
+    std::vector<Turn> alt;
+    for (const Turn& t : turns) {
+        if (!alt.empty() && alt.back().peak == t.peak) {
+            if (moreExtreme(t, alt.back())) alt.back() = t;
+            ++r.removedAlternation;
+        } else {
+            alt.push_back(t);
+        }
+    }
+    turns.swap(alt);
+}
+
+// b. Ends: the first and last turns must not be exceeded towards their end. Returns true when
+// a turn was removed.
+bool censorEnds(std::vector<Turn>& turns, const Series& S, TurnsResult& r) {
+    const double* y = S.y;
+    const Turn& f = turns.front();
+    bool drop = false;
+    for (int j : S.obs) {
+        if (j >= f.row) break;
+        if (f.peak ? y[j] > f.value : y[j] < f.value) drop = true;
+    }
+    if (drop) {
+        turns.erase(turns.begin());
+        ++r.removedEnds;
+        return true;
+    }
+    const Turn& l = turns.back();
+    for (auto it = S.obs.rbegin(); it != S.obs.rend() && *it > l.row; ++it)
+        if (l.peak ? y[*it] > l.value : y[*it] < l.value) drop = true;
+    if (drop) {
+        turns.pop_back();
+        ++r.removedEnds;
+        return true;
+    }
+    return false;
+}
+
+// c. Cycles: the shortest too-short span between turns of one kind loses the weaker of the
+// two (ties: the later). Returns true when a turn was removed.
+bool censorCycle(std::vector<Turn>& turns, TurnsResult& r) {
+    const std::size_t at = shortestSpan(turns, 2, r.minCycle);
+    if (at >= turns.size()) return false;
+    const std::size_t victim =
+        moreExtreme(turns[at], turns[at + 2]) || turns[at].value == turns[at + 2].value ? at + 2
+                                                                                          : at;
+    turns.erase(turns.begin() + static_cast<long>(victim));
+    ++r.removedCycle;
+    return true;
+}
+
+// d. Phases: the shortest too-short phase loses both turns. Returns true when it did.
+bool censorPhase(std::vector<Turn>& turns, TurnsResult& r) {
+    const std::size_t at = shortestSpan(turns, 1, r.minPhase);
+    if (at >= turns.size()) return false;
+    turns.erase(turns.begin() + static_cast<long>(at), turns.begin() + static_cast<long>(at) + 2);
+    r.removedPhase += 2;
+    return true;
+}
+
+// 2. The censoring rules, repeated until nothing changes (back to a. after each removal).
+void censor(std::vector<Turn>& turns, const Series& S, TurnsResult& r) {
+    for (bool changed = true; changed;) {
+        alternate(turns, r);
+        if (turns.empty()) break;
+        changed = censorEnds(turns, S, r) || censorCycle(turns, r) || censorPhase(turns, r);
+    }
+}
+
+// The surviving turns as rows, and the warnings.
+void turnRows(const std::vector<Turn>& turns, TurnsResult& r) {
+    const int mpp = monthsPerPeriod(r.freq);
+    for (std::size_t j = 0; j < turns.size(); ++j) {
+        TurnRow row;
+        row.row = turns[j].row;
+        row.periodStart = periodStartOfKey(turns[j].key, r.freq);
+        row.peak = turns[j].peak;
+        row.value = turns[j].value;
+        if (j > 0)
+            row.monthsSincePrevious = static_cast<double>((turns[j].key - turns[j - 1].key) * mpp);
+        r.rows.push_back(row);
+    }
+    const std::size_t removed =
+        r.removedAlternation + r.removedEnds + r.removedCycle + r.removedPhase;
+    if (removed)
+        r.diag.warn(fmt::format(
+            "{} of {} candidate turns removed: {} alternation, {} ends, {} cycle, {} phase",
+            removed, r.candidates, r.removedAlternation, r.removedEnds, r.removedCycle,
+            r.removedPhase));
+    if (turns.empty()) r.diag.warn("no turning point found");
+}
+
 }  // namespace
 
 void TurnsOptions::validate() const {
@@ -92,131 +224,24 @@ TurnsResult indexTurns(const TurnsInput& in, const TurnsOptions& o) {
     r.minCycle = pick(o.minCycle, 15, 5, 2);
     r.ends = pick(o.ends, 6, 2, 1);
 
-    const int n = static_cast<int>(in.index.size());
-    r.diag.rowsIn = in.index.size();
-    std::vector<long> key(n);
-    std::vector<int> obs;
-    for (int i = 0; i < n; ++i) {
-        key[i] = periodKey(in.periods[i], r.freq);
-        if (hasValue(in.index[i])) obs.push_back(i);
+    const std::size_t n = in.index.size();
+    r.diag.rowsIn = n;
+    Series S;
+    S.y = in.index.data();
+    S.key.resize(n);
+    for (std::size_t i = 0; i < n; ++i) {
+        S.key[i] = periodKey(in.periods[i], r.freq);
+        if (hasValue(in.index[i])) S.obs.push_back(static_cast<int>(i));
     }
-    r.diag.rowsUsed = obs.size();
-    r.diag.drop(DropReason::BlankValue, in.index.size() - obs.size());
-    if (obs.size() < 3)
+    r.diag.rowsUsed = S.obs.size();
+    r.diag.drop(DropReason::BlankValue, n - S.obs.size());
+    if (S.obs.size() < 3)
         throw InputError(fmt::format("turning points need at least 3 values, the index has {}",
-                                     obs.size()));
-    const double* y = in.index.data();
-    const long firstKey = key[obs.front()], lastKey = key[obs.back()];
-
-    // 1. Candidates.
-    std::vector<Turn> turns;
-    for (std::size_t m = 0; m < obs.size(); ++m) {
-        const int i = obs[m];
-        if (key[i] - firstKey < r.ends || lastKey - key[i] < r.ends) continue;
-        bool peak = true, trough = true, left = false, right = false;
-        for (std::size_t j = m; j-- > 0 && key[i] - key[obs[j]] <= r.window;) {
-            left = true;
-            const double v = y[obs[j]];
-            if (!(v < y[i])) peak = false;
-            if (!(v > y[i])) trough = false;
-        }
-        for (std::size_t j = m + 1; j < obs.size() && key[obs[j]] - key[i] <= r.window; ++j) {
-            right = true;
-            const double v = y[obs[j]];
-            if (!(v <= y[i])) peak = false;
-            if (!(v >= y[i])) trough = false;
-        }
-        if (!left || !right) continue;
-        if (peak) turns.push_back({i, key[i], y[i], true});
-        else if (trough) turns.push_back({i, key[i], y[i], false});
-    }
+                                     S.obs.size()));
+    std::vector<Turn> turns = candidates(S, r);
     r.candidates = turns.size();
-
-    // 2. Censoring rules, repeated until stable.
-    for (bool changed = true; changed;) {
-        changed = false;
-        // a. Alternation.
-        std::vector<Turn> alt;
-        for (const Turn& t : turns) {
-            if (!alt.empty() && alt.back().peak == t.peak) {
-                if (moreExtreme(t, alt.back())) alt.back() = t;
-                ++r.removedAlternation;
-            } else {
-                alt.push_back(t);
-            }
-        }
-        turns.swap(alt);
-        if (turns.empty()) break;
-        // b. Ends: the first and last turns must not be exceeded towards their end.
-        {
-            const Turn& f = turns.front();
-            bool drop = false;
-            for (int j : obs) {
-                if (j >= f.row) break;
-                if (f.peak ? y[j] > f.value : y[j] < f.value) drop = true;
-            }
-            if (drop) {
-                turns.erase(turns.begin());
-                ++r.removedEnds;
-                changed = true;
-                continue;
-            }
-            const Turn& l = turns.back();
-            for (auto it = obs.rbegin(); it != obs.rend() && *it > l.row; ++it)
-                if (l.peak ? y[*it] > l.value : y[*it] < l.value) drop = true;
-            if (drop) {
-                turns.pop_back();
-                ++r.removedEnds;
-                changed = true;
-                continue;
-            }
-        }
-        // c. Cycles: the shortest too-short span between turns of one kind.
-        {
-            const std::size_t at = shortestSpan(turns, 2, r.minCycle);
-            if (at < turns.size()) {
-                // Remove the weaker of the two; ties: the later.
-                const std::size_t victim = moreExtreme(turns[at], turns[at + 2]) ||
-                                                   turns[at].value == turns[at + 2].value
-                                               ? at + 2
-                                               : at;
-                turns.erase(turns.begin() + static_cast<long>(victim));
-                ++r.removedCycle;
-                changed = true;
-                continue;
-            }
-        }
-        // d. Phases: the shortest too-short phase loses both turns.
-        {
-            const std::size_t at = shortestSpan(turns, 1, r.minPhase);
-            if (at < turns.size()) {
-                turns.erase(turns.begin() + static_cast<long>(at),
-                            turns.begin() + static_cast<long>(at) + 2);
-                r.removedPhase += 2;
-                changed = true;
-                continue;
-            }
-        }
-    }
-
-    const int mpp = monthsPerPeriod(r.freq);
-    for (std::size_t j = 0; j < turns.size(); ++j) {
-        TurnRow row;
-        row.row = turns[j].row;
-        row.periodStart = periodStartOfKey(turns[j].key, r.freq);
-        row.peak = turns[j].peak;
-        row.value = turns[j].value;
-        if (j > 0) row.monthsSincePrevious = double((turns[j].key - turns[j - 1].key) * mpp);
-        r.rows.push_back(row);
-    }
-    const std::size_t removed =
-        r.removedAlternation + r.removedEnds + r.removedCycle + r.removedPhase;
-    if (removed)
-        r.diag.warn(fmt::format(
-            "{} of {} candidate turns removed: {} alternation, {} ends, {} cycle, {} phase",
-            removed, r.candidates, r.removedAlternation, r.removedEnds, r.removedCycle,
-            r.removedPhase));
-    if (turns.empty()) r.diag.warn("no turning point found");
+    censor(turns, S, r);
+    turnRows(turns, r);
     return r;
 }
 
