@@ -40,21 +40,10 @@ SeriesRows readSeries(const Call& call) {
     return out;
 }
 
-// The settings of the arithmetic functions, bound to their arguments.
-struct RebaseSettings {
-    std::optional<double> base;
-};
-struct ChangeSettings {
-    int lag = 1;
-    ChangeKind kind = ChangeKind::Percent;
-    Frequency freq = Frequency::Month;
-};
-
 OutTable rebase(const Call& call) {
     const SeriesRows s = readSeries(call);
-    const auto base = call.options<RebaseSettings>().base;
-    if (!base) throw InputError("base is required: a date in the new base period");
-    const std::vector<double> v = rebaseIndex(s.series, *base);
+    const RebaseOptions o = call.options<RebaseOptions>();
+    const std::vector<double> v = rebaseIndex(s.series, o).values;
     const Range& index = call.required("index");
     OutTable out;
     for (std::size_t i = 0; i < s.rowOfInput.size(); ++i) {
@@ -69,8 +58,8 @@ OutTable rebase(const Call& call) {
 OutTable change(const Call& call) {
     const Range& index = call.required("index");
     checkAligned({{"index", &index}});
-    const ChangeSettings o = call.options<ChangeSettings>();
-    const std::vector<double> v = indexChange(numberColumn(index, 0), o.lag, o.kind, o.freq);
+    const ChangeOptions o = call.options<ChangeOptions>();
+    const std::vector<double> v = indexChange(numberColumn(index, 0), o).values;
     OutTable out;
     for (double x : v) {
         out.addRow();
@@ -113,7 +102,7 @@ OutTable adjust(const Call& call) {
         try {
             if (!p.isNumber()) throw InputError("price is not a number");
             out.num(adjustPrice(s.series, p.number, cellDate(sale.at(i), ctx),
-                                cellDate(target.at(i), ctx)));
+                                cellDate(target.at(i), ctx)).price);
         } catch (const InputError& e) {
             out.text(std::string("Lintel: ") + e.what());
         }
@@ -127,7 +116,7 @@ std::vector<FunctionSpec> arithmeticFunctions() {
     const ArgSpec periods{"periods", ArgKind::Range,
                           "The period column of an index table (period start dates)."};
     const ArgSpec index{"index", ArgKind::Range, "The index column aligned with periods."};
-    ArgSpec rebaseBase = param("base", date<RebaseSettings>(&RebaseSettings::base),
+    ArgSpec rebaseBase = param("base", date<RebaseOptions>(&RebaseOptions::baseDate),
                                "A date in the new base period.");
     rebaseBase.kind = ArgKind::Range;  // required
     return {
@@ -145,18 +134,18 @@ std::vector<FunctionSpec> arithmeticFunctions() {
          "INDEXCHANGE",
          "Change of an index over lag rows: percent (default), log points or annualised.",
          {{"index", ArgKind::Range, "An index column."},
-          param("lag", whole<ChangeSettings>(&ChangeSettings::lag, 1, 100000),
+          param("lag", whole<ChangeOptions>(&ChangeOptions::lag, 1, 100000),
                 "Rows to look back (default 1; 12 on a monthly index, 4 on a quarterly one is "
                 "year-over-year)."),
           param("kind",
-                choice<ChangeSettings>(&ChangeSettings::kind,
+                choice<ChangeOptions>(&ChangeOptions::kind,
                                        std::vector<std::pair<std::string, ChangeKind>>{
                                            {"pct", ChangeKind::Percent},
                                            {"log", ChangeKind::Log},
                                            {"annual", ChangeKind::Annual}}),
                 "\"pct\" 100 (I(t)/I(t-lag) - 1) (default); \"log\" 100 ln(I(t)/I(t-lag)); "
                 "\"annual\" the percent change annualised using freq."),
-          spec::freq<ChangeSettings>()},
+          spec::freq<ChangeOptions>()},
          {},
          {{"change", "0.00"}},
          "A column aligned with index; the first lag rows and rows where either value is "

@@ -118,12 +118,13 @@ OutTable refHomeValue(const Call& call) {
     const std::size_t kWidth = call.spec().width();
     OutTable out;
     titleRow(out, call);
-    for (int i = 0; i < r.axis.count; ++i) {
+    const IndexTable& tb = r.table;
+    for (int i = 0; i < tb.axis.count; ++i) {
         out.addRow();
-        out.num(r.axis.start(i) - call.ctx().dateOffset);
-        out.num(r.value[i]);
-        out.num(r.lower[i]);
-        out.num(r.upper[i]);
+        out.num(tb.axis.start(i) - call.ctx().dateOffset);
+        out.num(tb.index[i]);  // the home's value
+        out.num(tb.lower[i]);
+        out.num(tb.upper[i]);
     }
     if (call.layout().notes) {
         for (const auto& c : r.home) {

@@ -59,7 +59,7 @@ RepeatSalesInput readInput(const Call& call) {
 OutTable chainRs(const Call& call) {
     const RepeatSalesOptions o = call.options<RepeatSalesOptions>();
     const RepeatSalesResult r = repeatSalesIndex(readInput(call), o);
-    OutTable out = indexTableCells(IndexResult{r.table, r.diag}, call);
+    OutTable out = indexTableCells(r, call);
     if (call.layout().notes) labelTextRow(out, "pairs", r.pairCounts.summary(), call.spec().width());
     return out;
 }
@@ -72,9 +72,7 @@ OutTable rsPairs(const Call& call) {
     const std::size_t width = call.spec().width();
     if (audit.pairs.empty() && !titles && !notes) {
         // Nothing to list: say why rather than "the result is empty".
-        const std::string prefix = "index not estimated: ";
-        for (const auto& w : audit.diag.warnings)
-            if (w.rfind(prefix, 0) == 0) throw InputError(w.substr(prefix.size()));
+        if (audit.notEstimated) throw InputError(*audit.notEstimated);
         throw InputError("no property has two sales with a usable date and id");
     }
     OutTable out;
@@ -151,9 +149,9 @@ OptionSpec chainOption() {
                   "ending in it given the earlier values.");
 }
 OptionSpec initOption() {
-    return option("init", whole<O>(&O::chainInit, 0).withDefault("two years"),
+    return option("init", whole<O>(&O::chainInit, 1).withDefault("two years"),
                   "With chain=1: number of periods at the start estimated together before "
-                  "chaining begins; 0 or empty = two years (24 months, 8 quarters, 2 years).");
+                  "chaining begins; default two years (24 months, 8 quarters, 2 years).");
 }
 OptionSpec minsalesOption() {
     return spec::minsales<O>(

@@ -8,6 +8,7 @@
 #include <fmt/format.h>
 
 #include "diagnostics.hpp"
+#include "text_keys.hpp"
 
 namespace lintel::addin {
 
@@ -89,7 +90,7 @@ char cellFlag(const Cell& c) {
 }
 
 std::string cellKey(const Cell& c) {
-    if (c.isNumber()) return fmt::format("{}", c.number == 0 ? 0.0 : c.number);  // -0 -> "0"
+    if (c.isNumber()) return keyText(c.number);  // the core's rule: -0 and 0 are "0"
     if (c.isText()) return c.text;
     return {};
 }
@@ -192,7 +193,8 @@ void labelTextRow(OutTable& out, const std::string& label, const std::string& te
 
 void appendNotes(OutTable& out, const Diagnostics& d, std::size_t width) {
     labelRow(out, "rows used", static_cast<double>(d.rowsUsed), width);
-    for (const auto& [why, n] : d.dropped) labelRow(out, "dropped: " + why, static_cast<double>(n), width);
+    for (const auto& [why, n] : d.dropped)
+        labelRow(out, std::string("dropped: ") + dropReasonText(why), static_cast<double>(n), width);
     for (const auto& w : d.warnings) {
         out.addRow();
         out.text("warning");

@@ -62,34 +62,36 @@ struct HedonicInput {
 // place. numbers[i]: the cell's number, NaN if it holds no number; texts[i]: the cell's text,
 // "" if it holds a number or is blank. The column is numeric when more than half of its
 // non-blank cells are numbers (its text cells are then invalid: NaN); otherwise it is a text
-// column and its numbers become levels written as levelText(number).
+// column and its numbers become levels written as keyText(number) (text_keys.hpp).
 CharacteristicColumn classifyColumn(std::string name, const std::vector<double>& numbers,
                                     const std::vector<std::string>& texts);
-// A number written as a level: shortest round-trip form, "3", "2.5", "1e+20".
-std::string levelText(double x);
 
 enum class HedonicBias { None, Kennedy };
 enum class HedonicStdErr { Classical, HC1 };
 enum class Retransform { Smearing, Lognormal };
 
 struct HedonicOptions : IndexOptions {
-    int window = 0;                         // window: 0 pooled (default); k >= 2 rolling
+    // IndexOptions: freq ("M"), base (first period with a value), minsales (1): a period with
+    // fewer sales shows no value but its sales stay in the fit, level (0.95).
+    int window = 0;                         // window: 0 (default) one pooled fit over all
+                                            // periods; k >= 2 rolling windows of k periods
     HedonicBias bias = HedonicBias::None;   // bias: "none" (default) or "kennedy"
     HedonicStdErr se = HedonicStdErr::Classical;  // se: "classical" (default) or "hc1"
-    std::vector<int> logColumns;            // log: 1-based columns whose logs enter; none
+    std::vector<int> logColumns;            // log: 1-based columns whose logs enter;
+                                            // default none
     std::vector<int> categoricalColumns;    // categorical: 1-based numeric columns treated as
-                                            // categories; none (text columns always are)
+                                            // categories; default none (text columns
+                                            // always are)
     Retransform retransform = Retransform::Smearing;  // retransform (REFHOMEVALUE only):
                                             // "smearing" (Duan 1983, default) or "lognormal"
     double collinearTolerance = 1e-9;       // (no key) pivot of the scaled A below which a
                                             // term counts as collinear with earlier terms
-};
 
-// Row drop reasons of the hedonic estimators.
-namespace reason {
-inline const std::string kBadCharacteristic = "blank or invalid characteristic";
-inline const std::string kLogNonPositive = "log of a non-positive characteristic";
-}  // namespace reason
+    // IndexOptions::validate, then window, log and categorical (columns >= 1, not both log
+    // and categorical) and the tolerance. Whether the columns exist is checked against the
+    // input by the estimators. Throws InputError.
+    void validate() const;
+};
 
 enum class TermKind { Intercept, Characteristic, Period };
 
@@ -146,14 +148,14 @@ struct HomeInput {
     std::vector<std::string> texts;
 };
 
-struct RefHomeResult {
-    PeriodAxis axis;
-    std::vector<double> value, lower, upper;  // kNoValue where the period has no value
-    std::vector<std::size_t> count;
-    int basePosition = 0;
+// REFHOMEVALUE: the index table's layout with the home's value in price units (not an
+// index) in table.index and its band in lower / upper (kNoValue where the period has no
+// value); count = sales per period; basePosition = the period whose typical home fills blank
+// cells of the home.
+struct RefHomeResult : IndexResult {
     std::vector<HomeCell> home;  // the home valued
     double retransformFactor = kNoValue;  // pooled: the factor; rolling: the latest window's
-    Diagnostics diag;
+    const std::vector<double>& value() const { return table.index; }
 };
 
 // INDEXHEDONIC.

@@ -20,11 +20,17 @@ double defaultHpLambda(Frequency f) {
     return 1600.0;
 }
 
+void validateLambda(const std::optional<double>& lambda) {
+    if (lambda && !(std::isfinite(*lambda) && *lambda > 0))
+        throw InputError(fmt::format("lambda must be a positive number, got {}", *lambda));
+}
+
+void HpOptions::validate() const { validateLambda(lambda); }
+
 HpResult hodrickPrescott(const std::vector<double>& y, const HpOptions& o) {
+    o.validate();
     HpResult r;
     r.lambda = o.lambda ? *o.lambda : defaultHpLambda(o.freq);
-    if (!(std::isfinite(r.lambda) && r.lambda > 0))
-        throw InputError(fmt::format("lambda must be a positive number, got {}", r.lambda));
     const int n = static_cast<int>(y.size());
     r.diag.rowsIn = y.size();
     std::size_t observed = 0;
@@ -35,7 +41,7 @@ HpResult hodrickPrescott(const std::vector<double>& y, const HpOptions& o) {
             ++observed;
         }
     r.diag.rowsUsed = observed;
-    r.diag.drop("blank or non-numeric value", y.size() - observed);
+    r.diag.drop(DropReason::BlankValue, y.size() - observed);
     if (observed < 3)
         throw InputError(fmt::format("the trend needs at least 3 values, the index has {}",
                                      observed));

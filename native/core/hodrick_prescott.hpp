@@ -24,10 +24,16 @@
 namespace lintel {
 
 double defaultHpLambda(Frequency f);  // 129600 M, 1600 Q, 6.25 Y
+// Throws InputError unless lambda, when given, is a positive number (the words INDEXTREND,
+// INDEXSNR and INDEXCOMPARE share).
+void validateLambda(const std::optional<double>& lambda);
 
 struct HpOptions {
     Frequency freq = Frequency::Month;  // freq: "M" (default), "Q", "Y"; sets the default lambda
-    std::optional<double> lambda;       // lambda: smoothing weight > 0; default from freq
+    std::optional<double> lambda;       // lambda: smoothing weight > 0; default
+                                        // defaultHpLambda(freq)
+
+    void validate() const;  // lambda positive when given
 };
 
 struct HpResult {

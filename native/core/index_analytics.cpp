@@ -6,6 +6,7 @@
 #include <fmt/format.h>
 
 #include "hodrick_prescott.hpp"
+#include "statistics.hpp"
 
 namespace lintel {
 
@@ -19,8 +20,8 @@ void countValues(const std::vector<double>& index, bool positiveOnly, Diagnostic
         else if (positiveOnly && v <= 0) ++nonPos;
     }
     d.rowsUsed = index.size() - blank - nonPos;
-    d.drop(reason::kBlankValue, blank);
-    d.drop(reason::kNonPositiveValue, nonPos);
+    d.drop(DropReason::BlankValue, blank);
+    d.drop(DropReason::NonPositiveValue, nonPos);
 }
 
 std::vector<double> logChanges(const std::vector<double>& index, int lag) {
@@ -33,49 +34,6 @@ std::vector<double> logChanges(const std::vector<double>& index, int lag) {
     return out;
 }
 
-double pearson(const std::vector<double>& x, const std::vector<double>& y, std::size_t* pairs) {
-    const std::size_t n = std::min(x.size(), y.size());
-    double sx = 0, sy = 0;
-    std::size_t k = 0;
-    for (std::size_t i = 0; i < n; ++i)
-        if (hasValue(x[i]) && hasValue(y[i])) {
-            sx += x[i];
-            sy += y[i];
-            ++k;
-        }
-    if (pairs) *pairs = k;
-    if (k < 2) return kNoValue;
-    const double mx = sx / k, my = sy / k;
-    double sxx = 0, syy = 0, sxy = 0;
-    for (std::size_t i = 0; i < n; ++i)
-        if (hasValue(x[i]) && hasValue(y[i])) {
-            const double dx = x[i] - mx, dy = y[i] - my;
-            sxx += dx * dx;
-            syy += dy * dy;
-            sxy += dx * dy;
-        }
-    if (!(sxx > 0) || !(syy > 0)) return kNoValue;
-    const double r = sxy / std::sqrt(sxx * syy);
-    return std::max(-1.0, std::min(1.0, r));
-}
-
-double sampleSd(const std::vector<double>& v, std::size_t* count) {
-    double s = 0;
-    std::size_t k = 0;
-    for (double x : v)
-        if (hasValue(x)) {
-            s += x;
-            ++k;
-        }
-    if (count) *count = k;
-    if (k < 2) return kNoValue;
-    const double m = s / k;
-    double ss = 0;
-    for (double x : v)
-        if (hasValue(x)) ss += (x - m) * (x - m);
-    return std::sqrt(ss / (k - 1));
-}
-
 }  // namespace analytics
 
 double snrLambda(Frequency f) {
@@ -85,12 +43,18 @@ double snrLambda(Frequency f) {
     return 1.0 / (4 * g * g);
 }
 
+void VolatilityOptions::validate() const {
+    if (lag < 1) throw InputError(fmt::format("lag must be 1 or more, got {}", lag));
+}
+
+void SnrOptions::validate() const { validateLambda(lambda); }
+
 VolatilityResult indexVolatility(const std::vector<double>& index, const VolatilityOptions& o) {
-    if (o.lag < 1) throw InputError(fmt::format("lag must be 1 or more, got {}", o.lag));
+    o.validate();
     VolatilityResult r;
     analytics::countValues(index, true, r.diag);
     const std::vector<double> ch = analytics::logChanges(index, o.lag);
-    r.volatility = analytics::sampleSd(ch, &r.changes);
+    r.volatility = stats::sampleSd(ch, &r.changes);
     if (r.changes < 2)
         throw InputError(fmt::format(
             "volatility needs at least 2 changes over {} period(s); the index gives {}", o.lag,
@@ -100,6 +64,7 @@ VolatilityResult indexVolatility(const std::vector<double>& index, const Volatil
 }
 
 SnrResult indexSnr(const std::vector<double>& index, const SnrOptions& o) {
+    o.validate();
     SnrResult r;
     analytics::countValues(index, true, r.diag);
     std::vector<double> x(index.size(), kNoValue);

@@ -37,28 +37,21 @@
 
 namespace lintel {
 
-namespace reason {
-inline const std::string kBlankValue = "blank or non-numeric value";
-inline const std::string kNonPositiveValue = "non-positive value";
-}  // namespace reason
-
 namespace analytics {
 // rowsIn = rows; rowsUsed = rows with a value (> 0 when positiveOnly); drops counted by reason.
 void countValues(const std::vector<double>& index, bool positiveOnly, Diagnostics& diag);
 // 100 ln(I_t / I_{t-lag}); kNoValue where an end is missing or not positive.
 std::vector<double> logChanges(const std::vector<double>& index, int lag);
-// Pearson correlation of the pairs (x_i, y_i) where both have a value; kNoValue when fewer
-// than 2 pairs or a side has no variation. pairs receives the number of pairs used.
-double pearson(const std::vector<double>& x, const std::vector<double>& y, std::size_t* pairs);
-// Sample standard deviation (n - 1) of the values present; kNoValue when fewer than 2.
-double sampleSd(const std::vector<double>& values, std::size_t* count);
 }  // namespace analytics
 
 // ---- INDEXVOLATILITY --------------------------------------------------------------------
 struct VolatilityOptions {
-    int lag = 1;                        // lag: periods spanned by each change, >= 1
-    bool annual = false;                // annual: scale to one year, sd * sqrt(p / lag)
+    int lag = 1;                        // lag: periods spanned by each change, >= 1; default 1
+    bool annual = false;                // annual: scale to one year, sd * sqrt(p / lag);
+                                        // default off
     Frequency freq = Frequency::Month;  // freq: "M" (default), "Q", "Y"; p for annual
+
+    void validate() const;  // lag >= 1
 };
 
 struct VolatilityResult {
@@ -76,8 +69,10 @@ double snrLambda(Frequency f);
 
 struct SnrOptions {
     Frequency freq = Frequency::Month;  // freq: "M" (default), "Q", "Y"; sets lambda
-    std::optional<double> lambda;       // lambda: HP smoothing; default snrLambda(freq)
+    std::optional<double> lambda;       // lambda: HP smoothing > 0; default snrLambda(freq)
                                         // (215.3 M, 2.914 Q, 0.0625 Y)
+
+    void validate() const;  // lambda positive when given
 };
 
 struct SnrResult {

@@ -4,6 +4,8 @@
 
 #include <fmt/format.h>
 
+#include "index_analytics.hpp"
+
 namespace lintel {
 
 IndexSeries IndexSeries::fromColumns(std::vector<double> start, std::vector<double> value) {
@@ -37,7 +39,13 @@ int IndexSeries::rowOf(double serial) const {
     return -1;
 }
 
-std::vector<double> rebaseIndex(const IndexSeries& s, double baseDate) {
+void RebaseOptions::validate() const {
+    if (!baseDate) throw InputError("base is required: a date in the new base period");
+}
+
+SeriesResult rebaseIndex(const IndexSeries& s, const RebaseOptions& o) {
+    o.validate();
+    const double baseDate = *o.baseDate;
     const int b = s.rowOf(baseDate);
     if (b < 0)
         throw InputError(fmt::format("base {} lies outside the periods ({} .. {})",
@@ -46,32 +54,42 @@ std::vector<double> rebaseIndex(const IndexSeries& s, double baseDate) {
     if (!hasValue(s.value[b]) || s.value[b] <= 0)
         throw InputError(fmt::format("the base period {} has no index value",
                                      isoDate(s.start[b])));
-    std::vector<double> out(s.value.size(), kNoValue);
-    for (std::size_t i = 0; i < out.size(); ++i)
-        if (hasValue(s.value[i])) out[i] = 100.0 * s.value[i] / s.value[b];
-    return out;
+    SeriesResult r;
+    analytics::countValues(s.value, false, r.diag);
+    r.values.assign(s.value.size(), kNoValue);
+    for (std::size_t i = 0; i < r.values.size(); ++i)
+        if (hasValue(s.value[i])) r.values[i] = 100.0 * s.value[i] / s.value[b];
+    return r;
 }
 
-std::vector<double> indexChange(const std::vector<double>& index, int lag, ChangeKind kind,
-                                Frequency freq) {
+void ChangeOptions::validate() const {
     if (lag < 1) throw InputError(fmt::format("lag must be 1 or more, got {}", lag));
-    std::vector<double> out(index.size(), kNoValue);
-    for (std::size_t t = static_cast<std::size_t>(lag); t < index.size(); ++t) {
+}
+
+SeriesResult indexChange(const std::vector<double>& index, const ChangeOptions& o) {
+    o.validate();
+    SeriesResult r;
+    analytics::countValues(index, true, r.diag);
+    r.values.assign(index.size(), kNoValue);
+    const auto lag = static_cast<std::size_t>(o.lag);
+    for (std::size_t t = lag; t < index.size(); ++t) {
         const double a = index[t - lag], b = index[t];
         if (!hasValue(a) || !hasValue(b) || a <= 0 || b <= 0) continue;
         const double ratio = b / a;
-        switch (kind) {
-            case ChangeKind::Percent: out[t] = 100.0 * (ratio - 1.0); break;
-            case ChangeKind::Log: out[t] = 100.0 * std::log(ratio); break;
+        switch (o.kind) {
+            case ChangeKind::Percent: r.values[t] = 100.0 * (ratio - 1.0); break;
+            case ChangeKind::Log: r.values[t] = 100.0 * std::log(ratio); break;
             case ChangeKind::Annual:
-                out[t] = 100.0 * (std::pow(ratio, double(periodsPerYear(freq)) / lag) - 1.0);
+                r.values[t] = 100.0 * (std::pow(ratio, double(periodsPerYear(o.freq)) / o.lag) -
+                                       1.0);
                 break;
         }
     }
-    return out;
+    return r;
 }
 
-double adjustPrice(const IndexSeries& s, double price, double saleDate, double targetDate) {
+PriceAdjustment adjustPrice(const IndexSeries& s, double price, double saleDate,
+                            double targetDate) {
     if (!std::isfinite(price)) throw InputError("price is not a number");
     const auto lookup = [&](double date, const char* what) {
         if (!isUsableSerial(date)) throw InputError(fmt::format("{} is not a date", what));
@@ -85,9 +103,12 @@ double adjustPrice(const IndexSeries& s, double price, double saleDate, double t
                                          what, isoDate(date), isoDate(s.start[r])));
         return s.value[r];
     };
-    const double iSale = lookup(saleDate, "saledate");
-    const double iTarget = lookup(targetDate, "targetdate");
-    return price * iTarget / iSale;
+    PriceAdjustment r;
+    r.saleIndex = lookup(saleDate, "saledate");
+    r.targetIndex = lookup(targetDate, "targetdate");
+    r.price = price * r.targetIndex / r.saleIndex;
+    r.diag.rowsIn = r.diag.rowsUsed = 1;
+    return r;
 }
 
 }  // namespace lintel

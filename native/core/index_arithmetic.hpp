@@ -7,6 +7,7 @@
 // kNoValue (NaN) in an index means "no value" and propagates.
 #pragma once
 
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -26,14 +27,48 @@ struct IndexSeries {
     int rowOf(double serial) const;
 };
 
-std::vector<double> rebaseIndex(const IndexSeries& s, double baseDate);
+// A column of values computed from an index column, row by row.
+struct SeriesResult {
+    std::vector<double> values;  // one per row; kNoValue where there is none
+    Diagnostics diag;            // rowsIn = rows; rowsUsed = rows with a usable index value
+};
 
+// ---- INDEXREBASE ------------------------------------------------------------------------
+struct RebaseOptions {
+    std::optional<double> baseDate;  // base: a date in the new base period; required (no
+                                     // default)
+
+    void validate() const;  // base given
+};
+
+// Throws InputError when the base lies outside the periods or its period has no value.
+SeriesResult rebaseIndex(const IndexSeries& s, const RebaseOptions& options);
+
+// ---- INDEXCHANGE ------------------------------------------------------------------------
 enum class ChangeKind { Percent, Log, Annual };
-std::vector<double> indexChange(const std::vector<double>& index, int lag, ChangeKind kind,
-                                Frequency freq);
+
+struct ChangeOptions {
+    int lag = 1;                            // lag: periods between the two values, >= 1;
+                                            // default 1
+    ChangeKind kind = ChangeKind::Percent;  // kind: "pct" (default), "log", "annual"
+    Frequency freq = Frequency::Month;      // freq: "M" (default), "Q", "Y"; p for "annual"
+
+    void validate() const;  // lag >= 1
+};
+
+SeriesResult indexChange(const std::vector<double>& index, const ChangeOptions& options);
+
+// ---- PRICEADJUST ------------------------------------------------------------------------
+struct PriceAdjustment {
+    double price = kNoValue;        // the sale price at the target date
+    double saleIndex = kNoValue;    // I(sale) and I(target) used
+    double targetIndex = kNoValue;
+    Diagnostics diag;               // one row: the sale
+};
 
 // Time adjustment of one sale price; throws InputError with the reason when a date falls
 // outside the index or on a period without a value.
-double adjustPrice(const IndexSeries& s, double price, double saleDate, double targetDate);
+PriceAdjustment adjustPrice(const IndexSeries& s, double price, double saleDate,
+                            double targetDate);
 
 }  // namespace lintel

@@ -4,9 +4,22 @@
 
 #include <fmt/format.h>
 
+#include "hodrick_prescott.hpp"
+#include "statistics.hpp"
+
 namespace lintel {
 
+void CompareOptions::validate() const {
+    if (lag < 1) throw InputError(fmt::format("lag must be 1 or more, got {}", lag));
+    validateLambda(lambda);
+    if (changeLag && *changeLag < 1)
+        throw InputError(fmt::format("leadlag must be 1 or more, got {}", *changeLag));
+    if (maxLag && *maxLag < 0)
+        throw InputError(fmt::format("maxlag must be 0 or more, got {}", *maxLag));
+}
+
 CompareResult indexCompare(const CompareInput& in, const CompareOptions& o) {
+    o.validate();
     if (in.columns.empty()) throw InputError("indexes holds no column");
     if (!in.names.empty() && in.names.size() != in.columns.size())
         throw InputError("internal: one name per column expected");
@@ -15,9 +28,6 @@ CompareResult indexCompare(const CompareInput& in, const CompareOptions& o) {
         if (in.columns[c].size() != n)
             throw InputError(fmt::format("indexes column {} has {} rows, column 1 has {}", c + 1,
                                          in.columns[c].size(), n));
-    if (o.lag < 1) throw InputError(fmt::format("lag must be 1 or more, got {}", o.lag));
-    if (o.lambda && !(std::isfinite(*o.lambda) && *o.lambda > 0))
-        throw InputError(fmt::format("lambda must be a positive number, got {}", *o.lambda));
     CompareResult r;
     r.diag.rowsIn = n;
     for (std::size_t c = 0; c < in.columns.size(); ++c) {
@@ -32,7 +42,7 @@ CompareResult indexCompare(const CompareInput& in, const CompareOptions& o) {
             r.diag.warn(fmt::format("{}: no {} ({})", row.name, what, why));
         };
         std::size_t changes = 0;
-        row.volatility = analytics::sampleSd(analytics::logChanges(col, o.lag), &changes);
+        row.volatility = stats::sampleSd(analytics::logChanges(col, o.lag), &changes);
         if (hasValue(row.volatility) && o.annual)
             row.volatility *= std::sqrt(double(periodsPerYear(o.freq)) / o.lag);
         if (!hasValue(row.volatility)) note("volatility", "fewer than 2 changes");

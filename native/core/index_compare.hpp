@@ -28,11 +28,16 @@ struct CompareInput {
 
 struct CompareOptions {
     Frequency freq = Frequency::Month;  // freq: "M" (default), "Q", "Y"
-    int lag = 1;                        // lag: change lag of the volatility
-    bool annual = false;                // annual: annualise the volatility
-    std::optional<double> lambda;       // lambda: HP lambda of the SNR; default snrLambda(freq)
-    int changeLag = 0;                  // leadlag: change lag of the lead-lag; 0 = one year
-    int maxLag = -1;                    // maxlag: as INDEXLEADLAG (-1 = one year of periods)
+    int lag = 1;                        // lag: change lag of the volatility, >= 1; default 1
+    bool annual = false;                // annual: annualise the volatility; default off
+    std::optional<double> lambda;       // lambda: HP lambda of the SNR, > 0; default
+                                        // snrLambda(freq)
+    std::optional<int> changeLag;       // leadlag: change lag of the lead-lag, >= 1; default
+                                        // one year of periods
+    std::optional<int> maxLag;          // maxlag: as INDEXLEADLAG, >= 0; default one year of
+                                        // periods (at most rows - 1)
+
+    void validate() const;  // lag, lambda, leadlag, maxlag; throws InputError
 };
 
 struct CompareRow {

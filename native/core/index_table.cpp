@@ -4,10 +4,10 @@
 
 namespace lintel {
 
-void validateCommon(const IndexOptions& o) {
-    if (!(o.level > 0.0 && o.level < 1.0))
-        throw InputError(fmt::format("level must lie between 0 and 1, got {}", o.level));
-    if (o.minSales < 1) throw InputError("minsales must be at least 1");
+void IndexOptions::validate() const {
+    if (!(level > 0.0 && level < 1.0))
+        throw InputError(fmt::format("level must lie between 0 and 1, got {}", level));
+    if (minSales < 1) throw InputError("minsales must be at least 1");
 }
 
 int resolveBase(const PeriodAxis& axis, const std::vector<double>& level,

@@ -19,9 +19,13 @@ inline bool hasValue(double v) { return std::isfinite(v); }
 struct IndexOptions {
     Frequency freq = Frequency::Month;  // freq argument: "M" (default), "Q", "Y"
     std::optional<double> baseDate;     // base argument: the period containing it is 100;
-                                        // default: the first period with a value
-    std::size_t minSales = 1;           // minsales: fewer sales in a period = no value
-    double level = 0.95;                // level: confidence of the bands
+                                        // default (nullopt): the first period with a value
+    std::size_t minSales = 1;           // minsales: fewer sales in a period = no value; >= 1
+    double level = 0.95;                // level: confidence of the bands, 0 < level < 1
+
+    // Throws InputError naming the option (level, minsales). Every index estimator's
+    // validate() calls it first.
+    void validate() const;
 };
 
 struct IndexTable {
@@ -32,6 +36,8 @@ struct IndexTable {
     int basePosition = 0;            // position of the base period on the axis
 };
 
+// The result of every estimator that writes an index table (raw, mix, hedonic, repeat
+// sales, the reference home's value); estimators with more to say derive from it.
 struct IndexResult {
     IndexTable table;
     Diagnostics diag;
@@ -49,7 +55,5 @@ int resolveBase(const PeriodAxis& axis, const std::vector<double>& level,
 void scaleToBase(IndexTable& t, const std::vector<double>& level,
                  const std::vector<double>& levelLower, const std::vector<double>& levelUpper,
                  const IndexOptions& options);
-
-void validateCommon(const IndexOptions& options);
 
 }  // namespace lintel

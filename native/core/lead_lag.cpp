@@ -4,33 +4,45 @@
 
 #include <fmt/format.h>
 
+#include "statistics.hpp"
+
 namespace lintel {
 
 namespace {
 
-void validate(const LeadLagInput& in, const LeadLagOptions& o) {
+void checkInput(const LeadLagInput& in, const LeadLagOptions& o) {
     if (in.a.size() != in.b.size())
         throw InputError(fmt::format("the two indexes must cover the same periods: {} rows and {} rows",
                                      in.a.size(), in.b.size()));
-    if (o.changeLag < 0) throw InputError(fmt::format("lag must be 1 or more, got {}", o.changeLag));
-    if (o.maxLag < -1) throw InputError(fmt::format("maxlag must be 0 or more, got {}", o.maxLag));
-    if (o.minPairs < 3) throw InputError("minpairs must be at least 3");
+    const std::size_t n = in.a.size();
+    if (o.maxLag && static_cast<std::size_t>(*o.maxLag) >= std::max<std::size_t>(n, 1))
+        throw InputError(fmt::format("maxlag must be smaller than the number of rows ({}), got {}",
+                                     n, *o.maxLag));
 }
 
 }  // namespace
 
+void LeadLagOptions::validate() const {
+    if (changeLag && *changeLag < 1)
+        throw InputError(fmt::format("lag must be 1 or more, got {}", *changeLag));
+    if (maxLag && *maxLag < 0) throw InputError(fmt::format("maxlag must be 0 or more, got {}", *maxLag));
+    if (minPairs < 3) throw InputError("minpairs must be at least 3");
+}
+
+int LeadLagOptions::changeLagUsed() const {
+    return changeLag ? *changeLag : periodsPerYear(freq);
+}
+
 LeadLagResult leadLagOrEmpty(const LeadLagInput& in, const LeadLagOptions& o) {
-    validate(in, o);
+    o.validate();
+    checkInput(in, o);
     LeadLagResult r;
     const int p = periodsPerYear(o.freq);
-    r.changeLag = o.changeLag > 0 ? o.changeLag : p;
+    r.changeLag = o.changeLagUsed();
     const std::size_t n = in.a.size();
     // Default: one year of periods, but never beyond the rows there are.
-    const int maxLag = o.maxLag >= 0 ? o.maxLag
-                                     : std::min(std::max(p, 2), std::max(0, static_cast<int>(n) - 1));
-    if (o.maxLag >= 0 && static_cast<std::size_t>(o.maxLag) >= std::max<std::size_t>(n, 1))
-        throw InputError(fmt::format("maxlag must be smaller than the number of rows ({}), got {}",
-                                     n, o.maxLag));
+    const int maxLag =
+        o.maxLag ? *o.maxLag : std::min(std::max(p, 2), std::max(0, static_cast<int>(n) - 1));
     r.diag.rowsIn = n;
     std::size_t both = 0, blank = 0, nonPos = 0;
     for (std::size_t i = 0; i < n; ++i) {
@@ -40,8 +52,8 @@ LeadLagResult leadLagOrEmpty(const LeadLagInput& in, const LeadLagOptions& o) {
         else ++both;
     }
     r.diag.rowsUsed = both;
-    r.diag.drop("period where either index has no value", blank);
-    r.diag.drop(reason::kNonPositiveValue, nonPos);
+    r.diag.drop(DropReason::NoCommonValue, blank);
+    r.diag.drop(DropReason::NonPositiveValue, nonPos);
 
     const std::vector<double> ca = analytics::logChanges(in.a, r.changeLag);
     const std::vector<double> cb = analytics::logChanges(in.b, r.changeLag);
@@ -57,7 +69,7 @@ LeadLagResult leadLagOrEmpty(const LeadLagInput& in, const LeadLagOptions& o) {
         }
         LeadLagRow row;
         row.lag = lag;
-        const double c = analytics::pearson(x, y, &row.pairs);
+        const double c = stats::pearson(x, y, &row.pairs);
         if (row.pairs >= o.minPairs) row.corr = c;
         if (hasValue(row.corr)) {
             const bool better =

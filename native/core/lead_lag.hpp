@@ -17,6 +17,7 @@
 #pragma once
 
 #include <cstddef>
+#include <optional>
 #include <vector>
 
 #include "index_analytics.hpp"
@@ -29,10 +30,17 @@ struct LeadLagInput {
 
 struct LeadLagOptions {
     Frequency freq = Frequency::Month;  // freq: "M" (default), "Q", "Y"; sets the defaults below
-    int changeLag = 0;     // lag: periods spanned by each change; 0 = one year (12, 4, 1)
-    int maxLag = -1;       // maxlag: largest lead or lag tried, < rows; -1 = one year of
-                           // periods (12 M, 4 Q, 2 Y), at most rows - 1
-    std::size_t minPairs = 3;  // minpairs: fewer pairs at a lag = no correlation there (>= 3)
+    std::optional<int> changeLag;  // lag: periods spanned by each change, >= 1; default one
+                                   // year (12 M, 4 Q, 1 Y)
+    std::optional<int> maxLag;     // maxlag: largest lead or lag tried, 0 <= maxlag < rows;
+                                   // default one year of periods (12 M, 4 Q, 2 Y), at most
+                                   // rows - 1
+    std::size_t minPairs = 3;  // minpairs: fewer pairs at a lag = no correlation there;
+                               // >= 3, default 3
+
+    void validate() const;     // lag >= 1, maxlag >= 0, minpairs >= 3 (maxlag < rows is
+                               // checked against the input)
+    int changeLagUsed() const;  // changeLag, or one year of periods
 };
 
 struct LeadLagRow {

@@ -1,7 +1,6 @@
 #include "mix_adjusted.hpp"
 
 #include <algorithm>
-#include <cctype>
 #include <cmath>
 #include <cstdint>
 #include <limits>
@@ -11,23 +10,15 @@
 
 #include <fmt/format.h>
 
-#include "raw_index.hpp"
+#include "statistics.hpp"
+#include "text_keys.hpp"
 
 namespace lintel {
-
-const char* const kBlankStratum = "blank stratum";
 
 namespace {
 
 // Stratum-period cells held at most (memory guard against e.g. an id column as strata).
 constexpr std::size_t kMaxCells = 2000000;
-
-bool blankText(const std::string& s) {
-    return std::all_of(s.begin(), s.end(),
-                       [](char c) { return std::isspace(static_cast<unsigned char>(c)); });
-}
-
-long floorDiv(long a, long b) { return a / b - ((a % b != 0) && ((a < 0) != (b < 0))); }
 
 // Per stratum-period cells, flattened h * T + t.
 struct Cells {
@@ -135,7 +126,7 @@ void buildLevels(MixBuilder& b, const Cells& c, const PeriodAxis& axis,
         b.link(base, 0, c.T - 1, b.weights(base, base, base), 1.0);
     } else {
         const int p = periodsPerYear(o.freq);
-        auto yearOf = [&](int t) { return floorDiv(axis.firstKey + t, p); };
+        auto yearOf = [&](int t) { return yearOfKey(axis.firstKey + t, o.freq); };
         int first = -1;
         for (int t = 0; t < c.T && first < 0; ++t)
             if (hasValue(anyPrice[t])) first = t;
@@ -172,35 +163,24 @@ std::size_t draw(std::mt19937_64& g, std::size_t n) {
     return static_cast<std::size_t>(x % range);
 }
 
-// Linear-interpolation quantile of sorted values (numpy's default, "linear").
-double quantile(const std::vector<double>& sorted, double p) {
-    const double h = (sorted.size() - 1) * p;
-    const std::size_t lo = static_cast<std::size_t>(std::floor(h));
-    const std::size_t hi = std::min(lo + 1, sorted.size() - 1);
-    return sorted[lo] + (h - lo) * (sorted[hi] - sorted[lo]);
-}
-
-}  // namespace
-
-MixResult indexMix(const MixInput& in, const MixOptions& o) {
-    validateCommon(o);
-    if (o.bootstrap && (o.reps < 20 || o.reps > 10000))
-        throw InputError(fmt::format("reps must lie between 20 and 10000, got {}", o.reps));
+// The strata columns against the dates; rows with a blank stratum cell.
+RowProblems blankStrata(const MixInput& in) {
     if (in.strata.empty()) throw InputError("strata needs at least one column");
     const std::size_t n = in.sales.date.size();
     for (std::size_t k = 0; k < in.strata.size(); ++k)
         if (in.strata[k].size() != n)
             throw InputError(fmt::format("strata column {} has {} rows, dates has {}", k + 1,
                                          in.strata[k].size(), n));
-    std::vector<char> valid(n, 1);
+    RowProblems blank(n);
     for (const auto& col : in.strata)
         for (std::size_t i = 0; i < n; ++i)
-            if (blankText(col[i])) valid[i] = 0;
+            if (isBlankText(col[i])) blank[i] = DropReason::BlankStratum;
+    return blank;
+}
 
-    MixResult r;
-    const ScreenedSales s = screenSales(in.sales, o.freq, r.diag, &valid, kBlankStratum);
-
-    // Strata ids in order of first appearance (deterministic).
+// Stratum number of each used row (strata numbered in order of first appearance); `count`
+// receives the number of strata.
+std::vector<int> stratumIds(const MixInput& in, const ScreenedSales& s, std::size_t& count) {
     std::map<std::string, int> ids;
     std::vector<int> sid(s.rows.size());
     for (std::size_t j = 0; j < s.rows.size(); ++j) {
@@ -212,33 +192,39 @@ MixResult indexMix(const MixInput& in, const MixOptions& o) {
         const auto it = ids.emplace(key, static_cast<int>(ids.size())).first;
         sid[j] = it->second;
     }
-    Cells c;
-    c.H = static_cast<int>(ids.size());
-    c.T = s.axis.count;
-    r.strata = ids.size();
-    const std::size_t HT = static_cast<std::size_t>(c.H) * c.T;
-    if (HT > kMaxCells)
-        throw InputError(fmt::format(
-            "strata: {} strata over {} periods are too many cells (more than {}); a stratum "
-            "should hold many sales, so use coarser strata columns",
-            c.H, c.T, kMaxCells));
-    // The prices of each cell, contiguous: cell k holds pool[offset[k] .. offset[k+1]).
-    std::vector<std::size_t> offset(HT + 1, 0);
-    for (std::size_t j = 0; j < s.rows.size(); ++j) ++offset[c.at(sid[j], s.period[j]) + 1];
-    for (std::size_t k = 0; k < HT; ++k) offset[k + 1] += offset[k];
-    std::vector<double> pool(s.rows.size());
-    {
-        std::vector<std::size_t> next(offset.begin(), offset.end() - 1);
-        for (std::size_t j = 0; j < s.rows.size(); ++j)
-            pool[next[c.at(sid[j], s.period[j])]++] = in.sales.price[s.rows[j]];
-    }
-    c.count.assign(HT, 0);
-    c.value.assign(HT, 0.0);
-    c.price.assign(HT, kNoValue);
+    count = ids.size();
+    return sid;
+}
+
+// The prices of each cell, contiguous: cell k holds pool[offset[k] .. offset[k+1]).
+struct CellPool {
+    std::vector<std::size_t> offset;
+    std::vector<double> pool;
+    std::size_t size(std::size_t k) const { return offset[k + 1] - offset[k]; }
+};
+
+CellPool poolCells(const Cells& c, const MixInput& in, const ScreenedSales& s,
+                   const std::vector<int>& sid) {
+    const std::size_t HT = c.count.size();
+    CellPool p;
+    p.offset.assign(HT + 1, 0);
+    for (std::size_t j = 0; j < s.rows.size(); ++j) ++p.offset[c.at(sid[j], s.period[j]) + 1];
+    for (std::size_t k = 0; k < HT; ++k) p.offset[k + 1] += p.offset[k];
+    p.pool.resize(s.rows.size());
+    std::vector<std::size_t> next(p.offset.begin(), p.offset.end() - 1);
+    for (std::size_t j = 0; j < s.rows.size(); ++j)
+        p.pool[next[c.at(sid[j], s.period[j])]++] = in.sales.price[s.rows[j]];
+    return p;
+}
+
+// Counts, sums and prices of the cells (no price below minsales sales; counted in r); marks
+// the periods where some stratum has a price. Returns the rows in thin cells.
+std::size_t priceCells(Cells& c, const CellPool& p, const MixOptions& o, MixResult& r,
+                       std::vector<double>& anyPrice) {
     std::size_t thinRows = 0;
-    std::vector<double> anyPrice(c.T, kNoValue);
-    for (std::size_t k = 0; k < HT; ++k) {
-        const std::vector<double> v(pool.begin() + offset[k], pool.begin() + offset[k + 1]);
+    for (std::size_t k = 0; k < c.count.size(); ++k) {
+        const auto from = p.pool.begin() + static_cast<std::ptrdiff_t>(p.offset[k]);
+        const std::vector<double> v(from, from + static_cast<std::ptrdiff_t>(p.size(k)));
         c.count[k] = v.size();
         c.value[k] = std::accumulate(v.begin(), v.end(), 0.0);
         if (v.empty()) continue;
@@ -249,58 +235,53 @@ MixResult indexMix(const MixInput& in, const MixOptions& o) {
         }
         c.price[k] = o.stat == MixStatistic::Median ? stats::median(v)
                                                      : c.value[k] / double(v.size());
-        anyPrice[k % c.T] = 1.0;
+        anyPrice[k % static_cast<std::size_t>(c.T)] = 1.0;
     }
+    return thinRows;
+}
 
-    MixBuilder b(c, o, r);
-    buildLevels(b, c, s.axis, anyPrice, o, r);
-    r.strataWeighted = b.weightedStrata();
-
-    r.table.axis = s.axis;
-    r.table.count = b.used();
-    const std::vector<double> none(c.T, kNoValue);
-    scaleToBase(r.table, b.level(), none, none, o);
-
-    if (o.bootstrap) {
-        // Stratified bootstrap: redraw every cell's sales, rebuild the index, keep base = 100.
-        const int base = r.table.basePosition;
-        std::mt19937_64 gen(o.seed);
-        std::vector<std::vector<double>> reps(c.T);
-        Cells rc = c;
-        std::vector<double> sample;
-        for (int k = 0; k < o.reps; ++k) {
-            for (std::size_t cell = 0; cell < HT; ++cell) {
-                const std::size_t m = offset[cell + 1] - offset[cell];
-                if (m == 0) continue;
-                const double* v = pool.data() + offset[cell];
-                sample.resize(m);
-                for (double& x : sample) x = v[draw(gen, m)];
-                rc.value[cell] = std::accumulate(sample.begin(), sample.end(), 0.0);
-                if (hasValue(c.price[cell]))
-                    rc.price[cell] = o.stat == MixStatistic::Median
-                                         ? stats::median(sample)
-                                         : rc.value[cell] / double(sample.size());
-            }
-            MixResult scratch;
-            MixBuilder rb(rc, o, scratch);
-            buildLevels(rb, rc, s.axis, anyPrice, o, scratch);
-            const double ref = rb.level()[base];
-            if (!hasValue(ref) || !(ref > 0)) continue;
-            for (int t = 0; t < c.T; ++t)
-                if (hasValue(rb.level()[t])) reps[t].push_back(100.0 * rb.level()[t] / ref);
+// Stratified bootstrap: redraw every cell's sales, rebuild the index, keep base = 100; the
+// band is the quantiles of the replicates.
+void bootstrapBands(const Cells& c, const CellPool& p, const PeriodAxis& axis,
+                    const std::vector<double>& anyPrice, const MixOptions& o, MixResult& r) {
+    const int base = r.table.basePosition;
+    std::mt19937_64 gen(o.seed);
+    std::vector<std::vector<double>> reps(static_cast<std::size_t>(c.T));
+    Cells rc = c;
+    std::vector<double> sample;
+    for (int k = 0; k < o.reps; ++k) {
+        for (std::size_t cell = 0; cell < c.count.size(); ++cell) {
+            const std::size_t m = p.size(cell);
+            if (m == 0) continue;
+            const double* v = p.pool.data() + p.offset[cell];
+            sample.resize(m);
+            for (double& x : sample) x = v[draw(gen, m)];
+            rc.value[cell] = std::accumulate(sample.begin(), sample.end(), 0.0);
+            if (hasValue(c.price[cell]))
+                rc.price[cell] = o.stat == MixStatistic::Median
+                                     ? stats::median(sample)
+                                     : rc.value[cell] / double(sample.size());
         }
-        for (int t = 0; t < c.T; ++t) {
-            if (!hasValue(r.table.index[t]) || reps[t].size() < 2) continue;
-            std::sort(reps[t].begin(), reps[t].end());
-            r.table.lower[t] = quantile(reps[t], (1 - o.level) / 2);
-            r.table.upper[t] = quantile(reps[t], (1 + o.level) / 2);
-        }
+        MixResult scratch;
+        MixBuilder rb(rc, o, scratch);
+        buildLevels(rb, rc, axis, anyPrice, o, scratch);
+        const double ref = rb.level()[base];
+        if (!hasValue(ref) || !(ref > 0)) continue;
+        for (int t = 0; t < c.T; ++t)
+            if (hasValue(rb.level()[t])) reps[t].push_back(100.0 * rb.level()[t] / ref);
     }
+    for (int t = 0; t < c.T; ++t) {
+        if (!hasValue(r.table.index[t]) || reps[t].size() < 2) continue;
+        std::sort(reps[t].begin(), reps[t].end());
+        r.table.lower[t] = stats::quantile(reps[t], (1 - o.level) / 2);
+        r.table.upper[t] = stats::quantile(reps[t], (1 + o.level) / 2);
+    }
+}
 
-    const std::size_t used = std::accumulate(b.used().begin(), b.used().end(), std::size_t{0});
-    r.diag.drop(fmt::format("in a stratum-period with fewer than {} sales", o.minSales), thinRows);
-    r.diag.drop("in a stratum without a price in the reference period",
-                r.diag.rowsUsed - used - thinRows);
+// Rows used and dropped after the cells, and the warnings of the mix.
+void mixDiagnostics(std::size_t used, std::size_t thinRows, const MixOptions& o, MixResult& r) {
+    r.diag.drop(DropReason::ThinStratumPeriod, thinRows);
+    r.diag.drop(DropReason::UnpricedStratum, r.diag.rowsUsed - used - thinRows);
     r.diag.rowsUsed = used;
     std::size_t noValue = 0;
     for (double v : r.table.index)
@@ -316,6 +297,48 @@ MixResult indexMix(const MixInput& in, const MixOptions& o) {
         r.diag.warn(fmt::format("{} link(s) weighted by the link period (no sales the year before)",
                                 r.fallbackWeights));
     if (noValue) r.diag.warn(fmt::format("{} period(s) without a value", noValue));
+}
+
+}  // namespace
+
+void MixOptions::validate() const {
+    IndexOptions::validate();
+    if (bootstrap && (reps < 20 || reps > 10000))
+        throw InputError(fmt::format("reps must lie between 20 and 10000, got {}", reps));
+}
+
+MixResult indexMix(const MixInput& in, const MixOptions& o) {
+    o.validate();
+    const RowProblems blank = blankStrata(in);
+    MixResult r;
+    const ScreenedSales s = screenSales(in.sales, o.freq, r.diag, &blank);
+    const std::vector<int> sid = stratumIds(in, s, r.strata);
+    Cells c;
+    c.H = static_cast<int>(r.strata);
+    c.T = s.axis.count;
+    const std::size_t HT = r.strata * static_cast<std::size_t>(c.T);
+    if (HT > kMaxCells)
+        throw InputError(fmt::format(
+            "strata: {} strata over {} periods are too many cells (more than {}); a stratum "
+            "should hold many sales, so use coarser strata columns",
+            c.H, c.T, kMaxCells));
+    c.count.assign(HT, 0);
+    c.value.assign(HT, 0.0);
+    c.price.assign(HT, kNoValue);
+    const CellPool pool = poolCells(c, in, s, sid);
+    std::vector<double> anyPrice(static_cast<std::size_t>(c.T), kNoValue);
+    const std::size_t thinRows = priceCells(c, pool, o, r, anyPrice);
+
+    MixBuilder b(c, o, r);
+    buildLevels(b, c, s.axis, anyPrice, o, r);
+    r.strataWeighted = b.weightedStrata();
+    r.table.axis = s.axis;
+    r.table.count = b.used();
+    const std::vector<double> none(static_cast<std::size_t>(c.T), kNoValue);
+    scaleToBase(r.table, b.level(), none, none, o);
+    if (o.bootstrap) bootstrapBands(c, pool, s.axis, anyPrice, o, r);
+    mixDiagnostics(std::accumulate(b.used().begin(), b.used().end(), std::size_t{0}), thinRows, o,
+                   r);
     return r;
 }
 

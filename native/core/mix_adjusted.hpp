@@ -66,8 +66,10 @@ struct MixOptions : IndexOptions {
     bool chain = false;                         // chain: yearly re-weighting, chain-linked
     EmptyStratumRule empty = EmptyStratumRule::Reweight;  // empty: "reweight" (default), "carry"
     bool bootstrap = false;       // bands: "none" (default) or "bootstrap"
-    int reps = 200;               // reps: bootstrap replicates, 20 .. 10000
-    unsigned long long seed = 1;  // seed: bootstrap random seed
+    int reps = 200;               // reps: bootstrap replicates, 20 .. 10000; default 200
+    unsigned long long seed = 1;  // seed: bootstrap random seed; default 1
+
+    void validate() const;  // IndexOptions::validate, then reps (with the bootstrap)
 };
 
 struct MixResult : IndexResult {
@@ -81,8 +83,6 @@ struct MixResult : IndexResult {
                                           // in the reference (base or link) period, summed over links
     std::size_t fallbackWeights = 0;  // links whose previous year gave no weight (link period used)
 };
-
-extern const char* const kBlankStratum;  // diagnostics reason "blank stratum"
 
 MixResult indexMix(const MixInput& input, const MixOptions& options);
 

@@ -88,8 +88,9 @@ int monthsPerPeriod(Frequency f) {
     return 1;
 }
 
-long periodKey(double serial, Frequency f) {
-    const CivilDate d = civilFromSerial(serial);
+long periodKey(double serial, Frequency f) { return periodKey(civilFromSerial(serial), f); }
+
+long periodKey(const CivilDate& d, Frequency f) {
     switch (f) {
         case Frequency::Month: return static_cast<long>(d.year) * 12 + (d.month - 1);
         case Frequency::Quarter: return static_cast<long>(d.year) * 4 + (d.month - 1) / 3;
@@ -97,6 +98,8 @@ long periodKey(double serial, Frequency f) {
     }
     return 0;
 }
+
+long yearOfKey(long key, Frequency f) { return floorDiv(key, periodsPerYear(f)); }
 
 double periodStartOfKey(long key, Frequency f) {
     switch (f) {
@@ -116,6 +119,10 @@ double periodStartOfKey(long key, Frequency f) {
 
 double periodStartOf(double serial, Frequency f) {
     return periodStartOfKey(periodKey(serial, f), f);
+}
+
+bool isPeriodStart(double serial, Frequency f) {
+    return isUsableSerial(serial) && periodStartOf(serial, f) == std::floor(serial);
 }
 
 std::string periodLabel(long key, Frequency f) {
@@ -162,7 +169,7 @@ std::optional<Frequency> inferFrequency(const double* starts, std::size_t n) {
         long prev = 0;
         bool unitStep = false;
         for (std::size_t i = 0; i < n && ok; ++i) {
-            if (!isUsableSerial(starts[i]) || periodStartOf(starts[i], f) != std::floor(starts[i])) {
+            if (!isPeriodStart(starts[i], f)) {
                 ok = false;
                 break;
             }

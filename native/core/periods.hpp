@@ -44,8 +44,11 @@ int monthsPerPeriod(Frequency f);         // 1, 3, 12
 // A period key numbers periods consecutively: months as year*12 + month-1, quarters as
 // year*4 + quarter-1, years as the year. Consecutive keys are consecutive periods.
 long periodKey(double serial, Frequency f);
+long periodKey(const CivilDate& d, Frequency f);     // the same from a converted date
+long yearOfKey(long key, Frequency f);               // calendar year of a period key
 double periodStartOfKey(long key, Frequency f);      // serial of the first day
 double periodStartOf(double serial, Frequency f);    // = PERIODOF
+bool isPeriodStart(double serial, Frequency f);      // a usable serial on a period's first day
 std::string periodLabel(long key, Frequency f);      // "2024-03", "2024-Q1", "2024"
 
 // The consecutive run of periods an index is reported on: from the first to the last period

@@ -14,7 +14,7 @@
 // - "cs2": as "cs" with the squared interval added in stage (2) (Calhoun 1996, "OFHEO house
 //   price indexes: HPI technical description", Office of Federal Housing Enterprise
 //   Oversight).
-// With chain = 1 published values are frozen: after an initial window estimated jointly,
+// With chain on, published values are frozen: after an initial window estimated jointly,
 // each later period is estimated from the pairs that end in it given the frozen values of
 // the periods where they start (our own construction, documented in
 // docs/methods/repeat_sales.md).
@@ -24,6 +24,7 @@
 #pragma once
 
 #include <cstddef>
+#include <cstdint>
 #include <optional>
 #include <string>
 #include <string_view>
@@ -44,8 +45,9 @@ const char* repeatSalesMethodCode(RepeatSalesMethod m);  // "cs", "bmn", "cs2"
 // Raw sales, one entry per spreadsheet row.
 struct RepeatSalesInput {
     // Property id as text; "" (or only blanks) = blank id: the row is dropped. Ids are compared
-    // after trimming leading and trailing blanks, case-sensitively. Numeric cells become text
-    // with propertyIdFromNumber (in the add-in's cell conversion), so 123 and "123" are one id.
+    // after trimming leading and trailing blanks (trimBlanks), case-sensitively. Numeric cells
+    // become text with keyText (text_keys.hpp; in the add-in's cell conversion), so 123 and
+    // "123" are one id.
     std::vector<std::string> id;
     SalesInput sales;            // date, price, include, emptyRow as for every index
     std::vector<char> changed;   // empty = no flags; else 1 = the property changed at this sale
@@ -53,43 +55,62 @@ struct RepeatSalesInput {
                                  // dropped, the next pair starts from this sale
 };
 
-// Canonical text of a numeric id cell: the shortest text that reads back as the same number
-// ("123", "-7", "12.5", "1e+16"; fmt's "{}" form, as the add-in's cellKey), -0 as "0"; NaN
-// gives "" (blank id).
-std::string propertyIdFromNumber(double value);
-
 struct RepeatSalesOptions : IndexOptions {
     // IndexOptions: freq (default "M"), base (default: first period with a value), level
     // (0.95), minsales (1): a period informed by fewer used pairs gets no value; the pairs
     // that inform a period are those with a sale in it for jointly estimated periods
-    // (chain 0, and the initial window of chain 1) and those ending in it for chained periods.
-    RepeatSalesMethod method = RepeatSalesMethod::CaseShiller;  // method: "cs", "bmn", "cs2"
+    // (chain off, and the initial window of a chain) and those ending in it for chained
+    // periods.
+    RepeatSalesMethod method = RepeatSalesMethod::CaseShiller;  // method: "cs" (default),
+                                                                // "bmn", "cs2"
     double minHoldMonths = 6;  // minhold: pairs held fewer completed calendar months are
-                               // dropped ("flips"); 0 = off
+                               // dropped ("flips"); default 6; 0 turns the filter off
     double maxRate = 1.0;      // maxrate: pairs whose |annualised log return| exceeds it are
-                               // dropped; 0 = off
-    int chain = 0;             // chain: 0 re-estimates the whole history; 1 freezes values
-    int chainInit = 0;         // init (chain 1): periods estimated jointly before chaining
-                               // starts, counted from the first period of the data;
-                               // 0 = two years (24 months, 8 quarters, 2 years)
+                               // dropped; default 1; 0 turns the filter off
+    bool chain = false;        // chain: false (default, option 0) re-estimates the whole
+                               // history; true (option 1) freezes published values
+    std::optional<int> chainInit;  // init (with chain): periods estimated jointly before
+                                   // chaining starts, counted from the first period of the
+                                   // data, >= 1; default: two years (24 M, 8 Q, 2 Y)
+
+    // IndexOptions::validate, then minhold, maxrate and init. Throws InputError.
+    void validate() const;
+    // The initial window used: chainInit, or two years of periods.
+    int initialPeriods() const;
 };
 
-// Why a pair was not used. Codes are stable; the text is what RSPAIRS shows.
-enum class PairStatus {
+// Why a pair was not used. Codes are stable (RSPAIRS and the reference checks show them); the
+// texts are in one table (pairStatusText, pairReasonText).
+enum class PairStatus : std::uint8_t {
     Used = 0,
-    FirstSaleUnusable,   // "first sale: <row reason>" (price, include)
+    FirstSaleUnusable,   // "first sale: <row reason>" (date, price, include)
     SecondSaleUnusable,  // "second sale: <row reason>"
     Duplicate,           // "duplicate sale (same id and date)": second row is the dropped one
     Changed,             // "property changed at the second sale"
     SamePeriod,          // "both sales in one period"
-    ShortHold,           // "held less than <minhold> months"
-    ExtremeReturn,       // "annualised log return beyond +/-<maxrate>"
+    ShortHold,           // "held less than minhold months"
+    ExtremeReturn,       // "annualised log return beyond +/-maxrate"
     NotLinked,           // "not linked to the base period": its periods lie in another
                          // connected part of the pair graph
     ChainUnreached,      // "first sale in a period without a value" (chain 1)
-    ThinPeriod,          // "fewer than <minsales> pairs end in the period" (chain 1)
+    ThinPeriod,          // "fewer than minsales pairs end in the period" (chain 1)
     NotEstimated,        // "index not estimated" (RSPAIRS when the index cannot be built)
 };
+inline constexpr std::size_t kPairStatusCount =
+    static_cast<std::size_t>(PairStatus::NotEstimated) + 1;
+
+// The full reason of a dropped pair: its status and, for an unusable first or second sale,
+// that sale's row reason (BadDate, BadPrice, NonPositivePrice, Excluded).
+struct PairReason {
+    PairStatus status = PairStatus::Used;
+    std::optional<DropReason> sale;
+    bool operator==(const PairReason& o) const { return status == o.status && sale == o.sale; }
+};
+
+const char* pairStatusText(PairStatus status);  // "" for Used; "first sale unusable" ...
+// pairStatusText, with the sale's row reason for an unusable sale ("second sale: blank or
+// non-numeric price").
+std::string pairReasonText(const PairReason& reason);
 
 // One row of the pair audit (RSPAIRS).
 struct SalePair {
@@ -103,7 +124,8 @@ struct SalePair {
                                      // is unusable or the days are equal
     bool used = false;
     PairStatus status = PairStatus::Used;
-    std::string reason;              // "" when used
+    std::optional<DropReason> saleProblem;  // First/SecondSaleUnusable: the sale's row reason
+    std::string reason;              // pairReasonText; "" when used
     double weight = 0;               // weight in the final stage, normalised to mean 1 over
                                      // the used pairs; 0 when not used
 };
@@ -112,7 +134,8 @@ struct SalePair {
 struct PairCounts {
     std::size_t formed = 0;
     std::size_t used = 0;
-    std::vector<std::pair<std::string, std::size_t>> dropped;
+    std::vector<std::pair<PairReason, std::size_t>> dropped;
+    std::size_t droppedFor(const PairReason& reason) const;
     std::string summary() const;  // "9120 of 10000 pairs used; dropped: 500 ..."
 };
 
@@ -125,9 +148,10 @@ struct RepeatSalesVarianceModel {
     std::size_t floored = 0;       // pairs whose fitted variance was raised to the floor
 };
 
-struct RepeatSalesResult {
-    IndexTable table;   // count = used pairs whose second sale is in the period
-    Diagnostics diag;   // rows: used = in at least one used pair; pair reasons in pairCounts
+// table.count = used pairs whose second sale is in the period; diag rows: used = in at least
+// one used pair, pair reasons in pairCounts (pairs given directly: each pair is a row,
+// dropped as PairNotUsed).
+struct RepeatSalesResult : IndexResult {
     PairCounts pairCounts;
     RepeatSalesVarianceModel variance;
     std::vector<double> logIndex;   // b_t - b_base per period; kNoValue where no value
@@ -143,6 +167,9 @@ struct PairAudit {
     std::vector<SalePair> pairs;
     PairCounts counts;
     Diagnostics diag;
+    // Set when the index could not be built (RSPAIRS still lists the pairs): the reason, in
+    // the user's words, as CHAINRS would have said it.
+    std::optional<std::string> notEstimated;
 };
 
 // CHAINRS: the index. Throws InputError when no index can be built (no usable pair, base
@@ -153,8 +180,9 @@ RepeatSalesResult repeatSalesIndex(const RepeatSalesInput& input,
                                    PairAudit* audit = nullptr);
 
 // RSPAIRS: the audit table under the same filters and options. Does not throw when the index
-// itself cannot be built: the pairs that passed the filters are then marked NotEstimated and
-// the reason is in diag.warnings. Throws InputError only for invalid options or columns.
+// itself cannot be built: the pairs that passed the filters are then marked NotEstimated, the
+// reason is in notEstimated (and, for the notes, in diag.warnings as "index not estimated:
+// <reason>"). Throws InputError only for invalid options or columns.
 PairAudit repeatSalesPairs(const RepeatSalesInput& input, const RepeatSalesOptions& options);
 
 // Pairs given directly (one entry per pair; first and second sale of one property; a pair
@@ -168,13 +196,5 @@ struct RepeatSalesPairInput {
 RepeatSalesResult repeatSalesFromPairs(const RepeatSalesPairInput& input,
                                        const RepeatSalesOptions& options,
                                        PairAudit* audit = nullptr);
-
-// Reason texts of the row-level drops added by the repeat-sales estimators.
-namespace reason {
-inline const std::string kBlankId = "blank property id";
-inline const std::string kDuplicateSale = "duplicate sale (same id and date)";
-inline const std::string kSingleSale = "only sale of its property";
-inline const std::string kNoUsedPair = "in no used pair";
-}  // namespace reason
 
 }  // namespace lintel

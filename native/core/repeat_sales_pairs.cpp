@@ -6,57 +6,53 @@
 // (day, row): together a sort by (id, date). Consecutive sales of one property form a pair.
 #include <algorithm>
 #include <cctype>
+#include <climits>
 #include <cmath>
+#include <cstdint>
+#include <stdexcept>
 #include <string_view>
 #include <unordered_map>
 
 #include <fmt/format.h>
 
 #include "repeat_sales_internal.hpp"
+#include "text_keys.hpp"
 
 namespace lintel {
 
 namespace {
 
 using rs_detail::BuiltPairs;
-using rs_detail::SaleProblem;
+using SaleProblem = std::optional<DropReason>;
 
-std::string_view trimmed(std::string_view s) {
-    std::size_t a = 0, b = s.size();
-    while (a < b && std::isspace(static_cast<unsigned char>(s[a]))) ++a;
-    while (b > a && std::isspace(static_cast<unsigned char>(s[b - 1]))) --b;
-    return s.substr(a, b - a);
-}
+struct StatusText {
+    PairStatus status;
+    const char* text;
+};
 
-// Why a row with a usable id and date was not usable (screenSales' order of checks).
-SaleProblem rowProblem(double price) {
-    if (!std::isfinite(price)) return SaleProblem::BadPrice;
-    if (price <= 0) return SaleProblem::NonPositivePrice;
-    return SaleProblem::Excluded;
-}
+// The one table of pair-status texts, in enum order.
+constexpr StatusText kStatusTexts[] = {
+    {PairStatus::Used, ""},
+    {PairStatus::FirstSaleUnusable, "first sale unusable"},
+    {PairStatus::SecondSaleUnusable, "second sale unusable"},
+    {PairStatus::Duplicate, "duplicate sale (same id and date)"},
+    {PairStatus::Changed, "property changed at the second sale"},
+    {PairStatus::SamePeriod, "both sales in one period"},
+    {PairStatus::ShortHold, "held less than minhold months"},
+    {PairStatus::ExtremeReturn, "annualised log return beyond +/-maxrate"},
+    {PairStatus::NotLinked, "not linked to the base period"},
+    {PairStatus::ChainUnreached, "first sale in a period without a value"},
+    {PairStatus::ThinPeriod, "fewer than minsales pairs end in the period"},
+    {PairStatus::NotEstimated, "index not estimated"},
+};
 
-const std::string& problemText(SaleProblem p) {
-    switch (p) {
-        case SaleProblem::BadDate: return reason::kBadDate;
-        case SaleProblem::BadPrice: return reason::kBadPrice;
-        case SaleProblem::NonPositivePrice: return reason::kNonPositivePrice;
-        case SaleProblem::Excluded: return reason::kExcluded;
-        case SaleProblem::None: break;
-    }
-    static const std::string none;
-    return none;
+constexpr bool statusTableInEnumOrder() {
+    std::size_t i = 0;
+    for (const StatusText& t : kStatusTexts)
+        if (static_cast<std::size_t>(t.status) != i++) return false;
+    return i == kPairStatusCount;
 }
-
-// Period key of a civil date: the same numbering as periodKey (periods.hpp), from a date
-// already converted (each sale is converted once).
-long keyOf(const CivilDate& d, Frequency f) {
-    switch (f) {
-        case Frequency::Month: return static_cast<long>(d.year) * 12 + (d.month - 1);
-        case Frequency::Quarter: return static_cast<long>(d.year) * 4 + (d.month - 1) / 3;
-        case Frequency::Year: return d.year;
-    }
-    return 0;
-}
+static_assert(statusTableInEnumOrder(), "one text per PairStatus, in enum order");
 
 // Civil dates of whole-day serials through a table over the span of the data (sales fall
 // on a few thousand distinct days; the conversion is the costly part of pair building).
@@ -133,8 +129,8 @@ std::size_t addPair(BuiltPairs& b, std::size_t rowA, std::size_t rowB, std::uint
     b.secondRow.push_back(rowB);
     b.group.push_back(group);
     b.realPair.push_back(1);
-    b.problem.push_back(SaleProblem::None);
-    const bool datesOk = probA != SaleProblem::BadDate && probB != SaleProblem::BadDate;
+    b.problem.push_back(std::nullopt);
+    const bool datesOk = probA != DropReason::BadDate && probB != DropReason::BadDate;
     b.months.push_back(datesOk ? monthsBetween(ca, cb) : kNoValue);
     double y = kNoValue, rate = kNoValue;
     if (std::isfinite(pa) && std::isfinite(pb) && pa > 0 && pb > 0) {
@@ -145,15 +141,15 @@ std::size_t addPair(BuiltPairs& b, std::size_t rowA, std::size_t rowB, std::uint
     b.rate.push_back(rate);
     long k1 = 0, k2 = 0;
     PairStatus st;
-    if (probA != SaleProblem::None) {
+    if (probA) {
         st = PairStatus::FirstSaleUnusable;
         b.problem.back() = probA;
-    } else if (probB != SaleProblem::None) {
+    } else if (probB) {
         st = PairStatus::SecondSaleUnusable;
         b.problem.back() = probB;
     } else {
-        k1 = keyOf(ca, o.freq);
-        k2 = keyOf(cb, o.freq);
+        k1 = periodKey(ca, o.freq);
+        k2 = periodKey(cb, o.freq);
         st = filterPair(k1, k2, b.months.back(), rate, changed, o);
     }
     b.key1.push_back(k1);
@@ -164,9 +160,42 @@ std::size_t addPair(BuiltPairs& b, std::size_t rowA, std::size_t rowB, std::uint
 
 }  // namespace
 
+const char* pairStatusText(PairStatus status) {
+    const auto i = static_cast<std::size_t>(status);
+    return i < kPairStatusCount ? kStatusTexts[i].text : "unknown reason";
+}
+
+std::string pairReasonText(const PairReason& r) {
+    if (r.sale && r.status == PairStatus::FirstSaleUnusable)
+        return std::string("first sale: ") + dropReasonText(*r.sale);
+    if (r.sale && r.status == PairStatus::SecondSaleUnusable)
+        return std::string("second sale: ") + dropReasonText(*r.sale);
+    return pairStatusText(r.status);
+}
+
+void RepeatSalesOptions::validate() const {
+    IndexOptions::validate();
+    if (!(minHoldMonths >= 0) || !std::isfinite(minHoldMonths))
+        throw InputError(fmt::format("minhold must be 0 or more months, got {}", minHoldMonths));
+    if (!(maxRate >= 0) || !std::isfinite(maxRate))
+        throw InputError(fmt::format("maxrate must be 0 (off) or positive, got {}", maxRate));
+    if (chainInit && *chainInit < 1)
+        throw InputError(fmt::format("init must be 1 or more periods, got {}", *chainInit));
+}
+
+int RepeatSalesOptions::initialPeriods() const {
+    return chainInit ? *chainInit : 2 * periodsPerYear(freq);
+}
+
+std::size_t PairCounts::droppedFor(const PairReason& reason) const {
+    for (const auto& [r, c] : dropped)
+        if (r == reason) return c;
+    return 0;
+}
+
 std::optional<RepeatSalesMethod> parseRepeatSalesMethod(std::string_view text) {
     std::string t;
-    for (char c : trimmed(text)) t += static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
+    for (char c : trimBlanks(text)) t += static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
     if (t == "cs") return RepeatSalesMethod::CaseShiller;
     if (t == "bmn") return RepeatSalesMethod::BaileyMuthNourse;
     if (t == "cs2") return RepeatSalesMethod::CaseShillerQuadratic;
@@ -182,48 +211,43 @@ const char* repeatSalesMethodCode(RepeatSalesMethod m) {
     return "cs";
 }
 
-std::string propertyIdFromNumber(double v) {
-    if (!std::isfinite(v)) return "";
-    if (v == 0) return "0";  // -0 too
-    // Shortest round-trip form, the same as the add-in's cellKey for number cells.
-    return fmt::format("{}", v);
-}
-
 namespace rs_detail {
 
-std::string statusText(PairStatus s, const RepeatSalesOptions& o) {
-    switch (s) {
-        case PairStatus::Used: return "";
-        case PairStatus::FirstSaleUnusable: return "first sale unusable";
-        case PairStatus::SecondSaleUnusable: return "second sale unusable";
-        case PairStatus::Duplicate: return reason::kDuplicateSale;
-        case PairStatus::Changed: return "property changed at the second sale";
-        case PairStatus::SamePeriod: return "both sales in one period";
-        case PairStatus::ShortHold: return fmt::format("held less than {:g} months", o.minHoldMonths);
-        case PairStatus::ExtremeReturn:
-            return fmt::format("annualised log return beyond +/-{:g}", o.maxRate);
-        case PairStatus::NotLinked: return "not linked to the base period";
-        case PairStatus::ChainUnreached: return "first sale in a period without a value";
-        case PairStatus::ThinPeriod:
-            return fmt::format("fewer than {} pairs end in the period", o.minSales);
-        case PairStatus::NotEstimated: return "index not estimated";
-    }
-    return "";
+PairReason reasonOf(const BuiltPairs& bp, std::size_t i) {
+    return {bp.status[i], bp.problem[i]};
 }
 
-std::string reasonText(const BuiltPairs& bp, std::size_t i, const RepeatSalesOptions& o) {
-    switch (bp.status[i]) {
-        case PairStatus::FirstSaleUnusable: return "first sale: " + problemText(bp.problem[i]);
-        case PairStatus::SecondSaleUnusable: return "second sale: " + problemText(bp.problem[i]);
-        default: return statusText(bp.status[i], o);
-    }
+std::size_t pairReasonSlot(const PairReason& r) {
+    const std::size_t sale = r.sale ? 1 + static_cast<std::size_t>(*r.sale) : 0;
+    return static_cast<std::size_t>(r.status) * (kDropReasonCount + 1) + sale;
 }
 
-std::vector<SalePair> auditRows(const BuiltPairs& bp, const RepeatSalesOptions& o) {
+PairCounts countPairs(const BuiltPairs& bp) {
+    PairCounts c;
+    c.formed = bp.size();
+    std::vector<std::size_t> slot(kPairReasonSlots, SIZE_MAX);  // reason -> entry of c.dropped
+    for (std::size_t i = 0; i < bp.size(); ++i) {
+        if (bp.status[i] == PairStatus::Used) {
+            ++c.used;
+            continue;
+        }
+        const PairReason r = reasonOf(bp, i);
+        const std::size_t k = pairReasonSlot(r);
+        if (k >= slot.size()) throw std::logic_error("pair reason outside the slot table");
+        if (slot[k] == SIZE_MAX) {
+            slot[k] = c.dropped.size();
+            c.dropped.emplace_back(r, 0);
+        }
+        ++c.dropped[slot[k]].second;
+    }
+    return c;
+}
+
+std::vector<SalePair> auditRows(const BuiltPairs& bp) {
     std::vector<SalePair> out(bp.size());
-    // Reason texts are the same for many pairs: build each (status, problem) text once.
-    std::vector<std::string> cache(64);
-    std::vector<char> cached(64, 0);
+    // Reason texts are the same for many pairs: build each reason's text once.
+    std::vector<std::string> cache(kPairReasonSlots);
+    std::vector<char> cached(kPairReasonSlots, 0);
     for (std::size_t i = 0; i < bp.size(); ++i) {
         SalePair& p = out[i];
         p.id = std::string(bp.ids.empty() ? std::string_view() : bp.ids[bp.group[i]]);
@@ -251,33 +275,22 @@ std::vector<SalePair> auditRows(const BuiltPairs& bp, const RepeatSalesOptions& 
         p.status = bp.status[i];
         p.used = p.status == PairStatus::Used;
         p.weight = p.used ? bp.weight[i] : 0.0;
-        const std::size_t key = static_cast<std::size_t>(p.status) * 5 +
-                                static_cast<std::size_t>(bp.problem[i]);
-        if (key < cache.size()) {
-            if (!cached[key]) {
-                cache[key] = reasonText(bp, i, o);
-                cached[key] = 1;
-            }
-            p.reason = cache[key];
-        } else {
-            p.reason = reasonText(bp, i, o);
+        const PairReason r = reasonOf(bp, i);
+        p.saleProblem = r.sale;
+        const std::size_t k = pairReasonSlot(r);
+        if (k >= cache.size()) throw std::logic_error("pair reason outside the slot table");
+        if (!cached[k]) {
+            cache[k] = pairReasonText(r);
+            cached[k] = 1;
         }
+        p.reason = cache[k];
     }
     return out;
 }
 
-void validateOptions(const RepeatSalesOptions& o) {
-    validateCommon(o);
-    if (!(o.minHoldMonths >= 0) || !std::isfinite(o.minHoldMonths))
-        throw InputError(fmt::format("minhold must be 0 or more months, got {}", o.minHoldMonths));
-    if (!(o.maxRate >= 0) || !std::isfinite(o.maxRate))
-        throw InputError(fmt::format("maxrate must be 0 (off) or positive, got {}", o.maxRate));
-    if (o.chain != 0 && o.chain != 1)
-        throw InputError(fmt::format("chain must be 0 or 1, got {}", o.chain));
-    if (o.chainInit < 0) throw InputError(fmt::format("init must be 0 or more, got {}", o.chainInit));
-}
+namespace {
 
-BuiltPairs buildPairsFromSales(const RepeatSalesInput& in, const RepeatSalesOptions& o) {
+void checkLengths(const RepeatSalesInput& in) {
     const SalesInput& s = in.sales;
     const std::size_t n = s.date.size();
     if (in.id.size() != n || s.price.size() != n)
@@ -291,122 +304,153 @@ BuiltPairs buildPairsFromSales(const RepeatSalesInput& in, const RepeatSalesOpti
                                      s.include.size(), n));
     if (!s.emptyRow.empty() && s.emptyRow.size() != n)
         throw InputError("internal: emptyRow differs in length from the sales");
+}
 
-    BuiltPairs out;
-    out.sales = &in;
+// The sequenced rows grouped by id: ids numbered in order of first appearance (out.ids),
+// rows of group g at order[start[g] .. start[g+1]) in input order (a stable counting sort).
+struct IdGroups {
+    std::vector<std::size_t> start, order;
+    std::vector<std::uint32_t> rowCode;  // per input row: its group, UINT32_MAX if unsequenced
+    std::size_t size() const { return start.size() - 1; }
+};
 
-    // Row validity: screenSales (blank id is the extra check). It throws when no row is
-    // usable; the audit is still built then (every pair shows why it was dropped).
-    std::vector<std::string_view> ids(n);
-    std::vector<char> idValid(n);
-    for (std::size_t i = 0; i < n; ++i) {
-        ids[i] = trimmed(in.id[i]);
-        idValid[i] = !ids[i].empty();
-    }
-    std::vector<char> usable(n, 0);
-    try {
-        ScreenedSales sc = screenSales(s, o.freq, out.diag, &idValid, reason::kBlankId.c_str());
-        for (std::size_t r : sc.rows) usable[r] = 1;
-        out.axis = sc.axis;
-    } catch (const InputError&) {
-        // The counts were set before the throw; no usable row, so no axis.
-    }
-
-    // Rows that take part in the sequence of their property: a usable id and date.
-    auto sequenced = [&](std::size_t i) {
-        return (s.emptyRow.empty() || !s.emptyRow[i]) && isUsableSerial(s.date[i]) && idValid[i];
-    };
-
-    // Number the ids in order of first appearance.
+IdGroups groupById(const std::vector<std::string_view>& ids, const std::vector<char>& sequenced,
+                   BuiltPairs& out) {
+    const std::size_t n = ids.size();
+    IdGroups G;
     std::unordered_map<std::string_view, std::uint32_t> code;
     code.reserve(n);
-    std::vector<std::uint32_t> rowCode(n, UINT32_MAX);
+    G.rowCode.assign(n, UINT32_MAX);
     std::vector<std::size_t> groupSize;
     for (std::size_t i = 0; i < n; ++i) {
-        if (!sequenced(i)) continue;
+        if (!sequenced[i]) continue;
         auto [it, fresh] = code.try_emplace(ids[i], static_cast<std::uint32_t>(groupSize.size()));
         if (fresh) {
             groupSize.push_back(0);
             out.ids.push_back(ids[i]);
         }
-        rowCode[i] = it->second;
+        G.rowCode[i] = it->second;
         ++groupSize[it->second];
     }
-    // Counting sort of rows by id number (stable: rows of one id stay in input order).
     const std::size_t groups = groupSize.size();
-    std::vector<std::size_t> start(groups + 1, 0);
-    for (std::size_t g = 0; g < groups; ++g) start[g + 1] = start[g] + groupSize[g];
-    std::vector<std::size_t> order(start[groups]);
-    {
-        std::vector<std::size_t> fill(start.begin(), start.end() - 1);
-        for (std::size_t i = 0; i < n; ++i)
-            if (rowCode[i] != UINT32_MAX) order[fill[rowCode[i]]++] = i;
-    }
-
-    std::vector<double> day(n, 0.0), sequencedDays;
-    sequencedDays.reserve(order.size());
+    G.start.assign(groups + 1, 0);
+    for (std::size_t g = 0; g < groups; ++g) G.start[g + 1] = G.start[g] + groupSize[g];
+    G.order.resize(G.start[groups]);
+    std::vector<std::size_t> fill(G.start.begin(), G.start.end() - 1);
     for (std::size_t i = 0; i < n; ++i)
-        if (rowCode[i] != UINT32_MAX) {
+        if (G.rowCode[i] != UINT32_MAX) G.order[fill[G.rowCode[i]]++] = i;
+    return G;
+}
+
+// What the walk over one property's sales reads.
+struct Walk {
+    const RepeatSalesInput& in;
+    const RepeatSalesOptions& o;
+    const ScreenedSales& sc;        // problem: the screening reason of each row
+    const std::vector<char>& usable;
+    const std::vector<double>& day;  // whole-day serial per row
+    const std::vector<CivilDate>& civil;
+};
+
+// The sales of one property sorted by (day, row), walked day by day: on one day keep the first
+// usable row in input order (or the first row when none is usable), pair it with the kept sale
+// of the previous day, and list the others as duplicate pseudo pairs.
+void pairProperty(BuiltPairs& out, const Walk& w, std::uint32_t gid,
+                  std::vector<std::size_t>::iterator first,
+                  std::vector<std::size_t>::iterator last) {
+    const auto& day = w.day;
+    const auto& price = w.in.sales.price;
+    if (last - first > 1)
+        std::sort(first, last, [&](std::size_t a, std::size_t b) {
+            return day[a] != day[b] ? day[a] < day[b] : a < b;
+        });
+    std::size_t prevKept = 0;
+    bool havePrev = false;
+    for (auto it = first; it != last;) {
+        auto runEnd = it;
+        while (runEnd != last && day[*runEnd] == day[*it]) ++runEnd;
+        std::size_t keep = *it;
+        for (auto j = it; j != runEnd; ++j)
+            if (w.usable[*j]) {
+                keep = *j;
+                break;
+            }
+        bool changed = false;
+        if (!w.in.changed.empty())
+            for (auto j = it; j != runEnd; ++j) changed = changed || w.in.changed[*j];
+        if (havePrev) {
+            // A sequenced row (usable id and date) that is not usable carries its screening
+            // reason (price, include).
+            const std::size_t a = prevKept, b = keep;
+            addPair(out, a, b, gid, day[a], day[b], w.civil[a], w.civil[b], price[a], price[b],
+                    w.sc.problem[a], w.sc.problem[b], changed, w.o);
+        }
+        for (auto j = it; j != runEnd; ++j) {
+            if (*j == keep) continue;
+            addPair(out, keep, *j, gid, day[keep], day[*j], w.civil[keep], w.civil[*j],
+                    price[keep], price[*j], std::nullopt, std::nullopt, false, w.o);
+            out.status.back() = PairStatus::Duplicate;
+            out.realPair.back() = 0;
+            if (w.usable[*j]) {
+                out.rowUsable[*j] = 0;
+                out.diag.drop(DropReason::DuplicateSale);
+            }
+        }
+        prevKept = keep;
+        havePrev = true;
+        it = runEnd;
+    }
+}
+
+}  // namespace
+
+BuiltPairs buildPairsFromSales(const RepeatSalesInput& in, const RepeatSalesOptions& o) {
+    checkLengths(in);
+    const SalesInput& s = in.sales;
+    const std::size_t n = s.date.size();
+    BuiltPairs out;
+    out.sales = &in;
+
+    // Row validity: the sales screening, a blank id being the extra check. The audit is built
+    // even when no row is usable (every pair shows why it was dropped).
+    std::vector<std::string_view> ids(n);
+    RowProblems idProblem(n);
+    for (std::size_t i = 0; i < n; ++i) {
+        ids[i] = trimBlanks(in.id[i]);
+        if (ids[i].empty()) idProblem[i] = DropReason::BlankId;
+    }
+    std::vector<char> usable(n, 0);
+    const ScreenedSales sc = screenRows(s, o.freq, out.diag, &idProblem);
+    for (std::size_t r : sc.rows) usable[r] = 1;
+    if (!sc.rows.empty()) out.axis = sc.axis;
+
+    // Rows that take part in the sequence of their property: a usable id and date.
+    std::vector<char> sequenced(n);
+    for (std::size_t i = 0; i < n; ++i)
+        sequenced[i] = (s.emptyRow.empty() || !s.emptyRow[i]) && isUsableSerial(s.date[i]) &&
+                       !ids[i].empty();
+    IdGroups G = groupById(ids, sequenced, out);
+
+    // Whole days and civil dates of the sequenced rows.
+    std::vector<double> day(n, 0.0), sequencedDays;
+    sequencedDays.reserve(G.order.size());
+    for (std::size_t i = 0; i < n; ++i)
+        if (sequenced[i]) {
             day[i] = std::floor(s.date[i]);
             sequencedDays.push_back(day[i]);
         }
     const CivilDays civilOf(sequencedDays);
     std::vector<CivilDate> civil(n);
     for (std::size_t i = 0; i < n; ++i)
-        if (rowCode[i] != UINT32_MAX) civil[i] = civilOf(day[i]);
+        if (sequenced[i]) civil[i] = civilOf(day[i]);
 
     out.rowUsable = usable;
-    reserve(out, order.size() > groups ? order.size() - groups : 0);
-    auto problem = [&](std::size_t r) {
-        return usable[r] ? SaleProblem::None : rowProblem(s.price[r]);
-    };
-
-    std::size_t prevKept = 0;
-    for (std::size_t g = 0; g < groups; ++g) {
-        auto first = order.begin() + static_cast<std::ptrdiff_t>(start[g]);
-        auto last = order.begin() + static_cast<std::ptrdiff_t>(start[g + 1]);
-        if (last - first > 1)
-            std::sort(first, last, [&](std::size_t a, std::size_t b) {
-                return day[a] != day[b] ? day[a] < day[b] : a < b;
-            });
-        const std::uint32_t gid = static_cast<std::uint32_t>(g);
-        bool havePrev = false;
-        // Walk the sales day by day; on one day keep the first usable row in input order (or
-        // the first row when none is usable), list the others as duplicate pseudo pairs.
-        for (auto it = first; it != last;) {
-            auto runEnd = it;
-            while (runEnd != last && day[*runEnd] == day[*it]) ++runEnd;
-            std::size_t keep = *it;
-            for (auto j = it; j != runEnd; ++j)
-                if (usable[*j]) {
-                    keep = *j;
-                    break;
-                }
-            bool changed = false;
-            if (!in.changed.empty())
-                for (auto j = it; j != runEnd; ++j) changed = changed || in.changed[*j];
-            if (havePrev) {
-                const std::size_t a = prevKept, b = keep;
-                addPair(out, a, b, gid, day[a], day[b], civil[a], civil[b], s.price[a],
-                        s.price[b], problem(a), problem(b), changed, o);
-            }
-            for (auto j = it; j != runEnd; ++j) {
-                if (*j == keep) continue;
-                addPair(out, keep, *j, gid, day[keep], day[*j], civil[keep], civil[*j],
-                        s.price[keep], s.price[*j], SaleProblem::None, SaleProblem::None, false,
-                        o);
-                out.status.back() = PairStatus::Duplicate;
-                out.realPair.back() = 0;
-                if (usable[*j]) {
-                    out.rowUsable[*j] = 0;
-                    out.diag.drop(reason::kDuplicateSale);
-                }
-            }
-            prevKept = keep;
-            havePrev = true;
-            it = runEnd;
-        }
-    }
+    reserve(out, G.order.size() > G.size() ? G.order.size() - G.size() : 0);
+    const Walk walk{in, o, sc, usable, day, civil};
+    for (std::size_t g = 0; g < G.size(); ++g)
+        pairProperty(out, walk, static_cast<std::uint32_t>(g),
+                     G.order.begin() + static_cast<std::ptrdiff_t>(G.start[g]),
+                     G.order.begin() + static_cast<std::ptrdiff_t>(G.start[g + 1]));
     out.weight.assign(out.size(), 0.0);
     return out;
 }
@@ -421,15 +465,9 @@ BuiltPairs buildPairsFromPairInput(const RepeatSalesPairInput& in, const RepeatS
     out.diag.rowsIn = n;
     reserve(out, n);
     out.swapped.assign(n, 0);
-    auto problem = [](double d, double p) {
-        if (!isUsableSerial(d)) return SaleProblem::BadDate;
-        if (!std::isfinite(p)) return SaleProblem::BadPrice;
-        if (p <= 0) return SaleProblem::NonPositivePrice;
-        return SaleProblem::None;
-    };
     if (!in.id.empty()) {
         out.ids.resize(n);
-        for (std::size_t i = 0; i < n; ++i) out.ids[i] = trimmed(in.id[i]);
+        for (std::size_t i = 0; i < n; ++i) out.ids[i] = trimBlanks(in.id[i]);
     }
     std::vector<double> days;
     days.reserve(2 * n);
@@ -454,9 +492,9 @@ BuiltPairs buildPairsFromPairInput(const RepeatSalesPairInput& in, const RepeatS
         const CivilDate ca = ok1 ? civilOf(a) : CivilDate{};
         const CivilDate cb = ok2 ? civilOf(b) : CivilDate{};
         addPair(out, i, i, static_cast<std::uint32_t>(in.id.empty() ? 0 : i), a, b, ca, cb, p1,
-                p2, problem(d1, p1), problem(d2, p2), false, o);
-        if (ok1 && ok2 && out.problem.back() == SaleProblem::None) {
-            const long k1 = keyOf(ca, o.freq), k2 = keyOf(cb, o.freq);
+                p2, saleProblem(d1, p1), saleProblem(d2, p2), false, o);
+        if (ok1 && ok2 && !out.problem.back()) {
+            const long k1 = periodKey(ca, o.freq), k2 = periodKey(cb, o.freq);
             if (!any) {
                 minKey = k1;
                 maxKey = k2;

@@ -1,17 +1,24 @@
 #include "sales.hpp"
 
 #include <algorithm>
+#include <array>
 #include <climits>
 #include <cmath>
 
 namespace lintel {
 
-ScreenedSales screenSales(const SalesInput& in, Frequency freq, Diagnostics& diag,
-                          const std::vector<char>* extraValid, const char* extraReason) {
+std::optional<DropReason> saleProblem(double date, double price) {
+    if (!isUsableSerial(date)) return DropReason::BadDate;
+    if (!std::isfinite(price)) return DropReason::BadPrice;
+    if (price <= 0) return DropReason::NonPositivePrice;
+    return std::nullopt;
+}
+
+ScreenedSales screenRows(const SalesInput& in, Frequency freq, Diagnostics& diag,
+                         const RowProblems* extra) {
     const std::size_t n = in.date.size();
     if (in.price.size() != n || (!in.include.empty() && in.include.size() != n) ||
-        (!in.emptyRow.empty() && in.emptyRow.size() != n) ||
-        (extraValid && extraValid->size() != n))
+        (!in.emptyRow.empty() && in.emptyRow.size() != n) || (extra && extra->size() != n))
         throw InputError("internal: sales columns differ in length");
 
     ScreenedSales out;
@@ -19,37 +26,49 @@ ScreenedSales screenSales(const SalesInput& in, Frequency freq, Diagnostics& dia
     std::vector<long> keys;
     keys.reserve(n);
     out.rows.reserve(n);
+    out.problem.assign(n, std::nullopt);
     long minKey = LONG_MAX, maxKey = LONG_MIN;
-    std::size_t empty = 0, badDate = 0, badPrice = 0, nonPos = 0, excluded = 0, extra = 0;
+    std::array<std::size_t, kDropReasonCount> count{};
     for (std::size_t i = 0; i < n; ++i) {
-        if (!in.emptyRow.empty() && in.emptyRow[i]) { ++empty; continue; }
-        if (!isUsableSerial(in.date[i])) { ++badDate; continue; }
-        const double p = in.price[i];
-        if (!std::isfinite(p)) { ++badPrice; continue; }
-        if (p <= 0) { ++nonPos; continue; }
-        if (extraValid && !(*extraValid)[i]) { ++extra; continue; }
-        if (!in.include.empty() && !in.include[i]) { ++excluded; continue; }
+        std::optional<DropReason> why;
+        if (!in.emptyRow.empty() && in.emptyRow[i]) why = DropReason::EmptyRow;
+        else if (auto p = saleProblem(in.date[i], in.price[i])) why = p;
+        else if (extra && (*extra)[i]) why = (*extra)[i];
+        else if (!in.include.empty() && !in.include[i]) why = DropReason::Excluded;
+        if (why) {
+            out.problem[i] = why;
+            ++count[static_cast<std::size_t>(*why)];
+            continue;
+        }
         const long k = periodKey(in.date[i], freq);
         minKey = std::min(minKey, k);
         maxKey = std::max(maxKey, k);
         out.rows.push_back(i);
         keys.push_back(k);
     }
-    diag.drop(reason::kEmptyRow, empty);
-    diag.drop(reason::kBadDate, badDate);
-    diag.drop(reason::kBadPrice, badPrice);
-    diag.drop(reason::kNonPositivePrice, nonPos);
-    if (extraReason) diag.drop(extraReason, extra);
-    diag.drop(reason::kExcluded, excluded);
+    // Counted in enum order, which is the order of the checks above.
+    for (std::size_t r = 0; r < kDropReasonCount; ++r)
+        diag.drop(static_cast<DropReason>(r), count[r]);
     diag.rowsUsed = out.rows.size();
     if (out.rows.empty()) {
-        std::string why = n == 0 ? "the ranges hold no rows" : "no usable sale: " + diag.summary();
-        throw InputError(why);
+        out.axis = PeriodAxis::spanning(0, -1, freq);
+        return out;
     }
     out.axis = PeriodAxis::spanning(minKey, maxKey, freq);
     out.period.resize(keys.size());
     for (std::size_t j = 0; j < keys.size(); ++j)
         out.period[j] = static_cast<int>(keys[j] - minKey);
+    return out;
+}
+
+ScreenedSales screenSales(const SalesInput& in, Frequency freq, Diagnostics& diag,
+                          const RowProblems* extra) {
+    ScreenedSales out = screenRows(in, freq, diag, extra);
+    if (out.rows.empty()) {
+        std::string why = in.date.empty() ? "the ranges hold no rows"
+                                          : "no usable sale: " + diag.summary();
+        throw InputError(why);
+    }
     return out;
 }
 

@@ -3,6 +3,7 @@
 #pragma once
 
 #include <cstddef>
+#include <optional>
 #include <vector>
 
 #include "diagnostics.hpp"
@@ -19,20 +20,29 @@ struct SalesInput {
     std::vector<char> emptyRow;   // empty, or 1 where every input cell of the row was blank
 };
 
+// Per row: nullopt when the row passes, else why it is dropped.
+using RowProblems = std::vector<std::optional<DropReason>>;
+
 // The usable rows, in input order, with their period positions on the axis.
 struct ScreenedSales {
     std::vector<std::size_t> rows;  // indices into SalesInput
     std::vector<int> period;        // position on axis, aligned with rows
-    PeriodAxis axis;
+    PeriodAxis axis;                // no periods when no row is usable
+    RowProblems problem;            // per input row: why it was dropped (nullopt: used)
 };
 
-// Drops rows with an unusable date or price, or excluded by the include mask, counting each
-// reason in diag (rowsIn and rowsUsed are set). Rows marked emptyRow are counted as
-// reason::kEmptyRow. `extraValid`, when given, is a per-row flag of further checks the caller
-// made (e.g. characteristics); rows with 0 there are dropped for `extraReason`.
-// Throws InputError when no row is usable.
+// The date and price checks of one sale, in screening order: BadDate, BadPrice,
+// NonPositivePrice, or nullopt when both are usable.
+std::optional<DropReason> saleProblem(double date, double price);
+
+// Drops rows that are empty (emptyRow), have an unusable date or price, fail the caller's
+// further check `extra` (ids, characteristics, strata: a per-row reason), or are excluded by
+// the include mask, in that order; counts each reason in diag (rowsIn and rowsUsed are set).
+// Does not throw when no row is usable (the axis is then empty).
+ScreenedSales screenRows(const SalesInput& in, Frequency freq, Diagnostics& diag,
+                         const RowProblems* extra = nullptr);
+// screenRows, throwing InputError when no row is usable.
 ScreenedSales screenSales(const SalesInput& in, Frequency freq, Diagnostics& diag,
-                          const std::vector<char>* extraValid = nullptr,
-                          const char* extraReason = nullptr);
+                          const RowProblems* extra = nullptr);
 
 }  // namespace lintel

@@ -1,5 +1,7 @@
 #include "sales_check.hpp"
 
+#include <stdexcept>
+
 #include <algorithm>
 #include <array>
 #include <cmath>
@@ -82,6 +84,30 @@ bool RawValue::isBlank() const {
 }
 
 const char* saleProblemText(SaleProblem p) { return info(p).text; }
+
+namespace {
+// The drop reason of a problem that drops its row (the same words).
+DropReason dropReasonOf(SaleProblem p) {
+    switch (p) {
+        case SaleProblem::BlankDate: return DropReason::BadDate;
+        case SaleProblem::UnreadableDate: return DropReason::UnreadableDate;
+        case SaleProblem::TwoDigitYear: return DropReason::TwoDigitYear;
+        case SaleProblem::NoSuchDate: return DropReason::NoSuchDate;
+        case SaleProblem::AmbiguousDate: return DropReason::AmbiguousDate;
+        case SaleProblem::ImplausibleDate: return DropReason::ImplausibleDate;
+        case SaleProblem::BlankPrice: return DropReason::BadPrice;
+        case SaleProblem::UnreadablePrice: return DropReason::UnreadablePrice;
+        case SaleProblem::AmbiguousNumber: return DropReason::AmbiguousNumber;
+        case SaleProblem::NonPositivePrice: return DropReason::NonPositivePrice;
+        case SaleProblem::BlankId: return DropReason::BlankId;
+        case SaleProblem::BlankSegment: return DropReason::BlankSegment;
+        case SaleProblem::DuplicateSale: return DropReason::DuplicateRow;
+        case SaleProblem::ConflictingPrices: return DropReason::ConflictingPrices;
+        case SaleProblem::PriceOutlier: break;  // kept
+    }
+    throw std::logic_error("a price outlier is not dropped");
+}
+}  // namespace
 bool saleProblemKeepsRow(SaleProblem p) { return info(p).keepsRow; }
 
 void SalesReadOptions::validate() const {
@@ -137,7 +163,7 @@ SalesCheck checkSales(const SalesCheckInput& in, const SalesCheckOptions& o) {
     for (std::size_t i = 0; i < n; ++i) {
         if (!in.include.empty() && !in.include[i]) {
             r.skipped[i] = 1;
-            diag.drop(reason::kExcluded);
+            diag.drop(DropReason::Excluded);
             continue;
         }
         bool blank = in.dates[i].isBlank() && in.prices[i].isBlank();
@@ -145,7 +171,7 @@ SalesCheck checkSales(const SalesCheckInput& in, const SalesCheckOptions& o) {
         for (const auto& seg : in.segments) blank = blank && seg[i].isBlank();
         if (blank) {
             r.skipped[i] = 1;
-            diag.drop(reason::kEmptyRow);
+            diag.drop(DropReason::EmptyRow);
         }
     }
 
@@ -312,7 +338,7 @@ SalesCheck checkSales(const SalesCheckInput& in, const SalesCheckOptions& o) {
     for (std::size_t i = 0; i < n; ++i) {
         if (r.skipped[i]) continue;
         if (!readable[i]) {
-            diag.drop(saleProblemText(dropFor[i]));
+            diag.drop(dropReasonOf(dropFor[i]));
             continue;
         }
         r.used[i] = 1;

@@ -4,9 +4,13 @@
 
 namespace lintel {
 
-SeasonalResult seasonalFactors(const std::vector<double>& index, const SeasonalOptions& o) {
-    if (o.freq == Frequency::Year)
+void SeasonalOptions::validate() const {
+    if (freq == Frequency::Year)
         throw InputError("seasonal factors need a monthly or quarterly index (freq M or Q)");
+}
+
+SeasonalResult seasonalFactors(const std::vector<double>& index, const SeasonalOptions& o) {
+    o.validate();
     const int p = periodsPerYear(o.freq);
     const int n = static_cast<int>(index.size());
     SeasonalResult r;

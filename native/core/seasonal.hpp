@@ -21,6 +21,8 @@ namespace lintel {
 
 struct SeasonalOptions {
     Frequency freq = Frequency::Month;  // freq: "M" (default) or "Q"; yearly has no seasons
+
+    void validate() const;  // freq must be M or Q
 };
 
 struct SeasonalResult {

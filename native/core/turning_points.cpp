@@ -44,7 +44,7 @@ Frequency resolveFrequency(const std::vector<double>& periods, const std::option
         long prev = 0;
         for (std::size_t i = 0; i < periods.size(); ++i) {
             const long k = periodKey(periods[i], *f);
-            if (periodStartOfKey(k, *f) != std::floor(periods[i]) || (i > 0 && k <= prev))
+            if (!isPeriodStart(periods[i], *f) || (i > 0 && k <= prev))
                 throw InputError(fmt::format(
                     "periods row {} is not the start of a new {} period (freq {})", i + 1,
                     *f == Frequency::Month ? "month" : *f == Frequency::Quarter ? "quarter" : "year",
@@ -61,45 +61,20 @@ Frequency resolveFrequency(const std::vector<double>& periods, const std::option
     return *inferred;
 }
 
-}  // namespace
+// The index as the rules see it: values, period keys, rows with a value.
+struct Series {
+    const double* y = nullptr;
+    std::vector<long> key;  // per row
+    std::vector<int> obs;   // rows with a value
+};
 
-TurnsResult indexTurns(const TurnsInput& in, const TurnsOptions& o) {
-    if (in.periods.size() != in.index.size())
-        throw InputError(fmt::format("periods has {} rows, index has {}", in.periods.size(),
-                                     in.index.size()));
-    if (in.periods.empty()) throw InputError("periods holds no dates");
-    TurnsResult r;
-    r.freq = resolveFrequency(in.periods, o.freq);
-    auto pick = [&](int given, int m, int q, int y, const char* name) {
-        if (given >= 0) {
-            if (given < 1 && std::string(name) != "ends")
-                throw InputError(fmt::format("{} must be 1 or more, got {}", name, given));
-            return given;
-        }
-        return r.freq == Frequency::Month ? m : r.freq == Frequency::Quarter ? q : y;
-    };
-    r.window = pick(o.window, 5, 2, 1, "window");
-    r.minPhase = pick(o.minPhase, 5, 2, 1, "minphase");
-    r.minCycle = pick(o.minCycle, 15, 5, 2, "mincycle");
-    r.ends = pick(o.ends, 6, 2, 1, "ends");
-
-    const int n = static_cast<int>(in.index.size());
-    r.diag.rowsIn = in.index.size();
-    std::vector<long> key(n);
-    std::vector<int> obs;
-    for (int i = 0; i < n; ++i) {
-        key[i] = periodKey(in.periods[i], r.freq);
-        if (hasValue(in.index[i])) obs.push_back(i);
-    }
-    r.diag.rowsUsed = obs.size();
-    r.diag.drop(reason::kBlankValue, in.index.size() - obs.size());
-    if (obs.size() < 3)
-        throw InputError(fmt::format("turning points need at least 3 values, the index has {}",
-                                     obs.size()));
-    const double* y = in.index.data();
+// 1. Candidates: a peak is strictly higher than every value in the window before it and at
+// least as high as every value in the window after it; troughs alike; none near the ends.
+std::vector<Turn> candidates(const Series& S, const TurnsResult& r) {
+    const double* y = S.y;
+    const auto& key = S.key;
+    const auto& obs = S.obs;
     const long firstKey = key[obs.front()], lastKey = key[obs.back()];
-
-    // 1. Candidates.
     std::vector<Turn> turns;
     for (std::size_t m = 0; m < obs.size(); ++m) {
         const int i = obs[m];
@@ -121,75 +96,82 @@ TurnsResult indexTurns(const TurnsInput& in, const TurnsOptions& o) {
         if (peak) turns.push_back({i, key[i], y[i], true});
         else if (trough) turns.push_back({i, key[i], y[i], false});
     }
-    r.candidates = turns.size();
+    return turns;
+}
 
-    // 2. Censoring rules, repeated until stable.
-    for (bool changed = true; changed;) {
-        changed = false;
-        // a. Alternation.
-        std::vector<Turn> alt;
-        for (const Turn& t : turns) {
-            if (!alt.empty() && alt.back().peak == t.peak) {
-                if (moreExtreme(t, alt.back())) alt.back() = t;
-                ++r.removedAlternation;
-            } else {
-                alt.push_back(t);
-            }
-        }
-        turns.swap(alt);
-        if (turns.empty()) break;
-        // b. Ends: the first and last turns must not be exceeded towards their end.
-        {
-            const Turn& f = turns.front();
-            bool drop = false;
-            for (int j : obs) {
-                if (j >= f.row) break;
-                if (f.peak ? y[j] > f.value : y[j] < f.value) drop = true;
-            }
-            if (drop) {
-                turns.erase(turns.begin());
-                ++r.removedEnds;
-                changed = true;
-                continue;
-            }
-            const Turn& l = turns.back();
-            for (auto it = obs.rbegin(); it != obs.rend() && *it > l.row; ++it)
-                if (l.peak ? y[*it] > l.value : y[*it] < l.value) drop = true;
-            if (drop) {
-                turns.pop_back();
-                ++r.removedEnds;
-                changed = true;
-                continue;
-            }
-        }
-        // c. Cycles: the shortest too-short span between turns of one kind.
-        {
-            const std::size_t at = shortestSpan(turns, 2, r.minCycle);
-            if (at < turns.size()) {
-                // Remove the weaker of the two; ties: the later.
-                const std::size_t victim = moreExtreme(turns[at], turns[at + 2]) ||
-                                                   turns[at].value == turns[at + 2].value
-                                               ? at + 2
-                                               : at;
-                turns.erase(turns.begin() + static_cast<long>(victim));
-                ++r.removedCycle;
-                changed = true;
-                continue;
-            }
-        }
-        // d. Phases: the shortest too-short phase loses both turns.
-        {
-            const std::size_t at = shortestSpan(turns, 1, r.minPhase);
-            if (at < turns.size()) {
-                turns.erase(turns.begin() + static_cast<long>(at),
-                            turns.begin() + static_cast<long>(at) + 2);
-                r.removedPhase += 2;
-                changed = true;
-                continue;
-            }
+// a. Alternation: of consecutive peaks keep the highest, of consecutive troughs the lowest.
+void alternate(std::vector<Turn>& turns, TurnsResult& r) {
+    std::vector<Turn> alt;
+    for (const Turn& t : turns) {
+        if (!alt.empty() && alt.back().peak == t.peak) {
+            if (moreExtreme(t, alt.back())) alt.back() = t;
+            ++r.removedAlternation;
+        } else {
+            alt.push_back(t);
         }
     }
+    turns.swap(alt);
+}
 
+// b. Ends: the first and last turns must not be exceeded towards their end. Returns true when
+// a turn was removed.
+bool censorEnds(std::vector<Turn>& turns, const Series& S, TurnsResult& r) {
+    const double* y = S.y;
+    const Turn& f = turns.front();
+    bool drop = false;
+    for (int j : S.obs) {
+        if (j >= f.row) break;
+        if (f.peak ? y[j] > f.value : y[j] < f.value) drop = true;
+    }
+    if (drop) {
+        turns.erase(turns.begin());
+        ++r.removedEnds;
+        return true;
+    }
+    const Turn& l = turns.back();
+    for (auto it = S.obs.rbegin(); it != S.obs.rend() && *it > l.row; ++it)
+        if (l.peak ? y[*it] > l.value : y[*it] < l.value) drop = true;
+    if (drop) {
+        turns.pop_back();
+        ++r.removedEnds;
+        return true;
+    }
+    return false;
+}
+
+// c. Cycles: the shortest too-short span between turns of one kind loses the weaker of the
+// two (ties: the later). Returns true when a turn was removed.
+bool censorCycle(std::vector<Turn>& turns, TurnsResult& r) {
+    const std::size_t at = shortestSpan(turns, 2, r.minCycle);
+    if (at >= turns.size()) return false;
+    const std::size_t victim =
+        moreExtreme(turns[at], turns[at + 2]) || turns[at].value == turns[at + 2].value ? at + 2
+                                                                                          : at;
+    turns.erase(turns.begin() + static_cast<long>(victim));
+    ++r.removedCycle;
+    return true;
+}
+
+// d. Phases: the shortest too-short phase loses both turns. Returns true when it did.
+bool censorPhase(std::vector<Turn>& turns, TurnsResult& r) {
+    const std::size_t at = shortestSpan(turns, 1, r.minPhase);
+    if (at >= turns.size()) return false;
+    turns.erase(turns.begin() + static_cast<long>(at), turns.begin() + static_cast<long>(at) + 2);
+    r.removedPhase += 2;
+    return true;
+}
+
+// 2. The censoring rules, repeated until nothing changes (back to a. after each removal).
+void censor(std::vector<Turn>& turns, const Series& S, TurnsResult& r) {
+    for (bool changed = true; changed;) {
+        alternate(turns, r);
+        if (turns.empty()) break;
+        changed = censorEnds(turns, S, r) || censorCycle(turns, r) || censorPhase(turns, r);
+    }
+}
+
+// The surviving turns as rows, and the warnings.
+void turnRows(const std::vector<Turn>& turns, TurnsResult& r) {
     const int mpp = monthsPerPeriod(r.freq);
     for (std::size_t j = 0; j < turns.size(); ++j) {
         TurnRow row;
@@ -197,7 +179,8 @@ TurnsResult indexTurns(const TurnsInput& in, const TurnsOptions& o) {
         row.periodStart = periodStartOfKey(turns[j].key, r.freq);
         row.peak = turns[j].peak;
         row.value = turns[j].value;
-        if (j > 0) row.monthsSincePrevious = double((turns[j].key - turns[j - 1].key) * mpp);
+        if (j > 0)
+            row.monthsSincePrevious = static_cast<double>((turns[j].key - turns[j - 1].key) * mpp);
         r.rows.push_back(row);
     }
     const std::size_t removed =
@@ -208,6 +191,57 @@ TurnsResult indexTurns(const TurnsInput& in, const TurnsOptions& o) {
             removed, r.candidates, r.removedAlternation, r.removedEnds, r.removedCycle,
             r.removedPhase));
     if (turns.empty()) r.diag.warn("no turning point found");
+}
+
+}  // namespace
+
+void TurnsOptions::validate() const {
+    auto atLeast = [](const std::optional<int>& v, int minimum, const char* name) {
+        if (v && *v < minimum)
+            throw InputError(fmt::format("{} must be {} or more, got {}", name, minimum, *v));
+    };
+    atLeast(window, 1, "window");
+    atLeast(minPhase, 1, "minphase");
+    atLeast(minCycle, 1, "mincycle");
+    atLeast(ends, 0, "ends");
+}
+
+TurnsResult indexTurns(const TurnsInput& in, const TurnsOptions& o) {
+    o.validate();
+    if (in.periods.size() != in.index.size())
+        throw InputError(fmt::format("periods has {} rows, index has {}", in.periods.size(),
+                                     in.index.size()));
+    if (in.periods.empty()) throw InputError("periods holds no dates");
+    TurnsResult r;
+    r.freq = resolveFrequency(in.periods, o.freq);
+    // Defaults by frequency: Bry & Boschan monthly, Harding & Pagan quarterly, ours yearly.
+    auto pick = [&](const std::optional<int>& given, int m, int q, int y) {
+        if (given) return *given;
+        return r.freq == Frequency::Month ? m : r.freq == Frequency::Quarter ? q : y;
+    };
+    r.window = pick(o.window, 5, 2, 1);
+    r.minPhase = pick(o.minPhase, 5, 2, 1);
+    r.minCycle = pick(o.minCycle, 15, 5, 2);
+    r.ends = pick(o.ends, 6, 2, 1);
+
+    const std::size_t n = in.index.size();
+    r.diag.rowsIn = n;
+    Series S;
+    S.y = in.index.data();
+    S.key.resize(n);
+    for (std::size_t i = 0; i < n; ++i) {
+        S.key[i] = periodKey(in.periods[i], r.freq);
+        if (hasValue(in.index[i])) S.obs.push_back(static_cast<int>(i));
+    }
+    r.diag.rowsUsed = S.obs.size();
+    r.diag.drop(DropReason::BlankValue, n - S.obs.size());
+    if (S.obs.size() < 3)
+        throw InputError(fmt::format("turning points need at least 3 values, the index has {}",
+                                     S.obs.size()));
+    std::vector<Turn> turns = candidates(S, r);
+    r.candidates = turns.size();
+    censor(turns, S, r);
+    turnRows(turns, r);
     return r;
 }
 

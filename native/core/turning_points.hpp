@@ -41,10 +41,14 @@ struct TurnsInput {
 
 struct TurnsOptions {
     std::optional<Frequency> freq;  // freq: default inferred from the period dates
-    int window = -1;    // window: +/- periods a turn must dominate; -1 = 5 M, 2 Q, 1 Y
-    int minPhase = -1;  // minphase: shortest phase, periods; -1 = 5 M, 2 Q, 1 Y
-    int minCycle = -1;  // mincycle: shortest cycle, periods; -1 = 15 M, 5 Q, 2 Y
-    int ends = -1;      // ends: no turn closer than this to the first/last value; -1 = 6 M, 2 Q, 1 Y
+    std::optional<int> window;    // window: +/- periods a turn must dominate, >= 1;
+                                  // default 5 M, 2 Q, 1 Y
+    std::optional<int> minPhase;  // minphase: shortest phase, periods, >= 1; default 5 M, 2 Q, 1 Y
+    std::optional<int> minCycle;  // mincycle: shortest cycle, periods, >= 1; default 15 M, 5 Q, 2 Y
+    std::optional<int> ends;      // ends: no turn closer than this many periods to the first or
+                                  // last value, >= 0; default 6 M, 2 Q, 1 Y
+
+    void validate() const;  // the bounds above; throws InputError naming the option
 };
 
 struct TurnRow {

@@ -87,7 +87,7 @@ const bench::Register pairsCase("repeat_sales_pairs_500k", [] {
                r, ms, 100);
     }
     lintel::RepeatSalesOptions o;
-    o.chain = 1;
+    o.chain = true;
     lintel::RepeatSalesResult r;
     const double ms = bench::medianMillis([&] { r = lintel::repeatSalesFromPairs(in, o); });
     report("repeat sales cs chain=1: 500,000 pairs, 192 months", r, ms, 100);

@@ -117,8 +117,8 @@ def build_pairs(df, freq="M", base=None):
              (~u2, "second sale: blank or non-numeric price"),
              (p.changed, "property changed at the second sale"),
              (p.s == p.t, "both sales in one period"),
-             (p.months < MINHOLD, f"held less than {MINHOLD} months"),
-             (np.abs(p.rate) > MAXRATE, f"annualised log return beyond +/-{MAXRATE:g}")]
+             (p.months < MINHOLD, "held less than minhold months"),
+             (np.abs(p.rate) > MAXRATE, "annualised log return beyond +/-maxrate")]
     reason = np.full(len(p), "", dtype=object)
     for cond, text in reversed(rules):
         reason[np.asarray(cond)] = text
@@ -283,7 +283,7 @@ class RepeatSalesCalcTest(unittest.TestCase):
         reasons = set(self.pairs.reason)
         for r in ["", "first sale: blank or non-numeric price", "second sale: blank or non-numeric price",
                   "property changed at the second sale", "both sales in one period",
-                  "held less than 6 months", "annualised log return beyond +/-1"]:
+                  "held less than minhold months", "annualised log return beyond +/-maxrate"]:
             self.assertIn(r, reasons)
         self.assertEqual(components(self.pairs), 1, "used pairs form one connected part")
         self.assertGreater(int(self.pairs.used.sum()), 500)

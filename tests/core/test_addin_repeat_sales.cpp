@@ -28,6 +28,7 @@
 #include "inputs.hpp"
 #include "options.hpp"
 #include "repeat_sales.hpp"
+#include "text_keys.hpp"
 
 using namespace lintel;
 using namespace lintel::addin;
@@ -213,9 +214,9 @@ BOOST_AUTO_TEST_CASE(ids_as_numbers_and_text_are_one_property) {
     BOOST_TEST(txt(p.rows[0][0]) == "7");
     BOOST_TEST(txt(p.rows[1][0]) == "8");
     BOOST_TEST(txt(p.rows[2][0]) == "9");
-    // The add-in's rule is the core's: a number cell's id is propertyIdFromNumber's text.
+    // The add-in's rule is the core's: a number cell's id is keyText's text.
     for (double x : {123.0, -7.0, 12.5, 1e16, 0.1})
-        BOOST_TEST(cellKey(Cell::num(x)) == propertyIdFromNumber(x));
+        BOOST_TEST(cellKey(Cell::num(x)) == keyText(x));
     // 12.5 and "12.50" are different ids (text is compared as written).
     Sheet d;
     d.add(Cell::num(12.5), kMar20, Cell::num(100)).add(Cell::str("12.50"), kMar21, Cell::num(110));
@@ -436,7 +437,7 @@ BOOST_AUTO_TEST_CASE(bad_input_messages) {
     BOOST_TEST(messageOf(call("RSPAIRS", pairArgs(s, "maxrate=-2"))) ==
                "Lintel: option maxrate must be 0 or more, got -2");
     BOOST_TEST(messageOf(call("CHAINRS", chainArgs(s, "init=-1"))) ==
-               "Lintel: option init must be a whole number of at least 0, got -1");
+               "Lintel: option init must be a whole number of at least 1, got -1");
     BOOST_TEST(messageOf(call("CHAINRS", chainArgs(s, "", false, "W"))) ==
                "Lintel: freq must be \"M\", \"Q\" or \"Y\", got \"W\"");
     // A period no pair reaches has no value, named in the notes; never a failure.

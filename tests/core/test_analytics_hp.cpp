@@ -85,7 +85,7 @@ BOOST_AUTO_TEST_CASE(hp_keeps_a_straight_line_and_bridges_gaps_linearly) {
     BOOST_TEST(!hasValue(r.trend[39]));
     for (int t = 2; t <= 38; ++t) BOOST_TEST(std::fabs(r.trend[t] - (50.0 + 1.5 * t)) < 1e-7);
     BOOST_TEST(!hasValue(r.cycle[18]));  // no value, no cycle
-    BOOST_TEST(r.diag.droppedFor("blank or non-numeric value") == 6u);
+    BOOST_TEST(r.diag.droppedFor(DropReason::BlankValue) == 6u);
     BOOST_TEST(r.diag.warnings.size() == 1u);  // the bridged gap
 }
 

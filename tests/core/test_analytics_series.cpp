@@ -79,7 +79,7 @@ BOOST_AUTO_TEST_CASE(volatility_hand_computed) {
     const double sd = std::sqrt(((a - m) * (a - m) * 2 + (b - m) * (b - m)) / 2);
     BOOST_TEST(std::fabs(r.volatility - sd) < 1e-12);
     BOOST_TEST(std::fabs(r.volatility - 11.585728004354243) < 1e-11);
-    BOOST_TEST(r.diag.droppedFor(reason::kBlankValue) == 1u);
+    BOOST_TEST(r.diag.droppedFor(DropReason::BlankValue) == 1u);
     // Annualised monthly: times sqrt(12).
     o.annual = true;
     BOOST_TEST(std::fabs(indexVolatility(idx, o).volatility - sd * std::sqrt(12.0)) < 1e-10);
@@ -91,7 +91,7 @@ BOOST_AUTO_TEST_CASE(volatility_hand_computed) {
     // Non-positive values count as no value.
     const VolatilityResult z = indexVolatility({100, 0, -3, 100, 101, 103}, VolatilityOptions{});
     BOOST_TEST(z.changes == 2u);
-    BOOST_TEST(z.diag.droppedFor(reason::kNonPositiveValue) == 2u);
+    BOOST_TEST(z.diag.droppedFor(DropReason::NonPositiveValue) == 2u);
 }
 
 BOOST_AUTO_TEST_CASE(volatility_of_a_steady_index_is_zero) {
@@ -141,7 +141,7 @@ BOOST_AUTO_TEST_CASE(snr_missing_values_and_errors) {
     const SnrResult r = indexSnr(idx, SnrOptions{});
     BOOST_TEST(r.pairs == 179u - 4u);  // four pairs lose an end
     BOOST_TEST(std::isfinite(r.snr));
-    BOOST_TEST(r.diag.droppedFor(reason::kNonPositiveValue) == 1u);
+    BOOST_TEST(r.diag.droppedFor(DropReason::NonPositiveValue) == 1u);
     BOOST_CHECK_THROW(indexSnr({100, kNoValue, 102}, SnrOptions{}), InputError);
     BOOST_CHECK_THROW(indexSnr({100, kNoValue, 102, kNoValue, 104}, SnrOptions{}), InputError);
     // A straight line in logs is its own trend: no noise, no ratio, a warning, no crash.
@@ -201,7 +201,7 @@ BOOST_AUTO_TEST_CASE(leadlag_hand_computed_and_errors) {
     big.changeLag = 1;
     big.maxLag = 8;
     BOOST_CHECK_THROW(indexLeadLag({a, a}, big), InputError);
-    big.maxLag = -1;
+    big.maxLag.reset();
     const LeadLagResult shrunk = indexLeadLag({a, a}, big);
     BOOST_TEST(shrunk.rows.size() == 15u);  // lags -7 .. 7
 }

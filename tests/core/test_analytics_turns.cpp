@@ -198,7 +198,7 @@ BOOST_AUTO_TEST_CASE(turns_missing_values_and_errors) {
     BOOST_REQUIRE(!r.rows.empty());
     BOOST_TEST(r.rows[0].row == 11);
     BOOST_TEST(r.rows[1].monthsSincePrevious == 25.0);
-    BOOST_TEST(r.diag.droppedFor(reason::kBlankValue) == 1u);
+    BOOST_TEST(r.diag.droppedFor(DropReason::BlankValue) == 1u);
     // Errors, never a crash.
     BOOST_CHECK_THROW(indexTurns({monthStarts(3), {1, 2}}, TurnsOptions{}), InputError);
     BOOST_CHECK_THROW(indexTurns({monthStarts(4), {1, kNoValue, kNoValue, 2}}, TurnsOptions{}),

@@ -17,6 +17,7 @@
 #include <vector>
 
 #include "hedonic.hpp"
+#include "text_keys.hpp"
 
 using namespace lintel;
 
@@ -141,7 +142,7 @@ BOOST_AUTO_TEST_CASE(numeric_column_as_categories) {
     int levels = 0;
     double ref = -1;
     for (double k = 1; k <= 4; ++k) {
-        const HedonicTerm* t = findTerm(f, "rooms=" + levelText(k));
+        const HedonicTerm* t = findTerm(f, "rooms=" + keyText(k));
         if (t) ++levels;
         else ref = k;
     }
@@ -149,7 +150,7 @@ BOOST_AUTO_TEST_CASE(numeric_column_as_categories) {
     BOOST_REQUIRE(ref > 0);
     for (double k = 1; k <= 4; ++k)
         if (k != ref)
-            BOOST_TEST(findTerm(f, "rooms=" + levelText(k))->coefficient == 0.05 * (k - ref),
+            BOOST_TEST(findTerm(f, "rooms=" + keyText(k))->coefficient == 0.05 * (k - ref),
                        boost::test_tools::tolerance(1e-8));
     BOOST_TEST(!findTerm(f, "rooms"));
 }
@@ -351,9 +352,9 @@ BOOST_AUTO_TEST_CASE(rows_with_bad_characteristics_are_dropped_with_reasons) {
     m.in.sales.price[7] = kNoValue;                  // blank price: a sales reason
     m.in.characteristics[3].numeric[7] = kNoValue;  // ... counted once, as the price
     const IndexResult r = hedonicIndex(m.in, logSize());
-    BOOST_TEST(r.diag.droppedFor(reason::kLogNonPositive) == 2u);
-    BOOST_TEST(r.diag.droppedFor(reason::kBadCharacteristic) == 2u);
-    BOOST_TEST(r.diag.droppedFor(lintel::reason::kBadPrice) == 1u);
+    BOOST_TEST(r.diag.droppedFor(DropReason::LogNonPositive) == 2u);
+    BOOST_TEST(r.diag.droppedFor(DropReason::BadCharacteristic) == 2u);
+    BOOST_TEST(r.diag.droppedFor(DropReason::BadPrice) == 1u);
     BOOST_TEST(r.diag.rowsUsed == 120u - 5u);
 }
 
@@ -439,7 +440,7 @@ BOOST_AUTO_TEST_CASE(reference_home_on_an_exact_fit) {
     for (int t = 0; t < 5; ++t) {
         const double want =
             std::exp(11 + delta(t) + 0.8 * std::log(100.0) + 0.1 - 0.2 - 0.04);
-        BOOST_TEST(r.value[t] == want, boost::test_tools::tolerance(1e-9));
+        BOOST_TEST(r.value()[t] == want, boost::test_tools::tolerance(1e-9));
     }
     BOOST_TEST(!r.home[0].typical);
     BOOST_TEST(r.home[2].level == "C");
@@ -463,8 +464,8 @@ BOOST_AUTO_TEST_CASE(classify_column_rule) {
     BOOST_TEST(b.numeric.empty());
     BOOST_TEST(b.text[1] == "3");
     BOOST_TEST(b.text[3] == "");
-    BOOST_TEST(levelText(2.5) == "2.5");
-    BOOST_TEST(levelText(4.0) == "4");
+    BOOST_TEST(keyText(2.5) == "2.5");
+    BOOST_TEST(keyText(4.0) == "4");
 }
 
 BOOST_AUTO_TEST_CASE(reference_level_ties_go_to_the_first_sorted_level) {

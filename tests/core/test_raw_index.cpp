@@ -1,13 +1,10 @@
-// Raw mean / median indexes and their building blocks. Expected values are worked by hand in
-// the comments; binomial tail sums are exact fractions. The t quantiles are the standard
-// t-table values (t(0.975; 4) = 2.776, t(0.975; 7) = 2.365, t(0.95; 30) = 1.697), quoted from
-// memory of any statistics text's table and checked to its 3 decimals; the pandas/scipy
-// reference check (tests/reference/test_raw_pandas.py) checks the bands to 1e-10.
+// Raw mean / median indexes. Expected values are worked by hand in the comments (their
+// building blocks, medians, trimmed means and the bands, are in test_statistics.cpp); the
+// pandas/scipy reference check (tests/reference/test_raw_pandas.py) checks the bands to 1e-10.
 #include <boost/test/unit_test.hpp>
 
 #include <cmath>
 
-#include "index_arithmetic.hpp"
 #include "raw_index.hpp"
 
 using namespace lintel;
@@ -24,64 +21,6 @@ SalesInput sales(const std::vector<std::pair<CivilDate, double>>& rows) {
 }  // namespace
 
 BOOST_AUTO_TEST_SUITE(raw_index)
-
-BOOST_AUTO_TEST_CASE(even_and_odd_medians) {
-    BOOST_TEST(stats::median({3, 1, 2}) == 2.0);
-    BOOST_TEST(stats::median({4, 1, 3, 2}) == 2.5);  // mean of the two middle values
-    BOOST_TEST(stats::median({7}) == 7.0);
-    BOOST_TEST(std::isnan(stats::median({})));
-}
-
-BOOST_AUTO_TEST_CASE(trimmed_means) {
-    // 1..10, trim 0.1: floor(1) cut from each end -> mean of 2..9 = 5.5
-    BOOST_TEST(stats::trimmedMean({10, 9, 8, 7, 6, 5, 4, 3, 2, 1}, 0.1) == 5.5);
-    // 1,2,3,4,100, trim 0.2: cut 1 each end -> mean(2,3,4) = 3; the outlier is gone
-    BOOST_TEST(stats::trimmedMean({1, 2, 3, 4, 100}, 0.2) == 3.0);
-    // trim 0.15 of 5 values: floor(0.75) = 0 cut -> the plain mean 22
-    BOOST_TEST(stats::trimmedMean({1, 2, 3, 4, 100}, 0.15) == 22.0);
-}
-
-BOOST_AUTO_TEST_CASE(student_t_quantiles_match_the_table) {
-    BOOST_TEST(std::abs(stats::studentTQuantile(0.975, 4) - 2.776) < 5e-4);
-    BOOST_TEST(std::abs(stats::studentTQuantile(0.975, 7) - 2.365) < 5e-4);
-    BOOST_TEST(std::abs(stats::studentTQuantile(0.95, 30) - 1.697) < 5e-4);
-}
-
-BOOST_AUTO_TEST_CASE(mean_band_t_interval) {
-    // 1..5: mean 3, s = sqrt(2.5), se = sqrt(2.5/5) = 0.70711; t(0.975; 4) = 2.77645
-    // -> 3 +/- 1.96324
-    const auto b = stats::meanInterval({1, 2, 3, 4, 5}, 0.0, 0.95);
-    const double half = stats::studentTQuantile(0.975, 4) * std::sqrt(0.5);
-    BOOST_TEST(b.lower == 3.0 - half, boost::test_tools::tolerance(1e-12));
-    BOOST_TEST(b.upper == 3.0 + half, boost::test_tools::tolerance(1e-12));
-    BOOST_TEST(std::abs(b.lower - 1.0368) < 1e-3);
-    BOOST_TEST(std::isnan(stats::meanInterval({5}, 0.0, 0.95).lower));  // one sale: no band
-}
-
-BOOST_AUTO_TEST_CASE(trimmed_mean_band_tukey_mclaughlin) {
-    // 1..10, trim 0.1, g = 1: winsorized 2,2,3,...,9,9 (mean 5.5), squared deviations sum
-    // 66.5, s_w = sqrt(66.5/9) = 2.71825; se = s_w sqrt(10) / 8 = 1.07448; df = 10 - 2 - 1 = 7;
-    // centre = trimmed mean 5.5 -> 5.5 +/- t(0.975; 7) * 1.07448 = 5.5 +/- 2.5408
-    const auto b = stats::meanInterval({1, 2, 3, 4, 5, 6, 7, 8, 9, 10}, 0.1, 0.95);
-    const double se = std::sqrt(66.5 / 9) * std::sqrt(10.0) / 8;
-    const double half = stats::studentTQuantile(0.975, 7) * se;
-    BOOST_TEST(b.lower == 5.5 - half, boost::test_tools::tolerance(1e-12));
-    BOOST_TEST(b.upper == 5.5 + half, boost::test_tools::tolerance(1e-12));
-    BOOST_TEST(std::abs(half - 2.5408) < 1e-3);
-}
-
-BOOST_AUTO_TEST_CASE(median_band_order_statistics) {
-    // n = 6: P(B <= 0) = 1/64 <= 0.025, P(B <= 1) = 7/64 > 0.025 -> [x(1), x(6)], coverage 62/64
-    BOOST_TEST(stats::medianInterval({10, 20, 30, 40, 50, 60}, 0.95).lower == 10.0);
-    BOOST_TEST(stats::medianInterval({10, 20, 30, 40, 50, 60}, 0.95).upper == 60.0);
-    // n = 5: P(B <= 0) = 1/32 > 0.025 -> no band at 95 %, but [x(1), x(5)] at 90 %
-    BOOST_TEST(std::isnan(stats::medianInterval({1, 2, 3, 4, 5}, 0.95).lower));
-    BOOST_TEST(stats::medianInterval({1, 2, 3, 4, 5}, 0.90).upper == 5.0);
-    // n = 10: P(B <= 1) = 11/1024 <= 0.025, P(B <= 2) = 56/1024 > 0.025 -> [x(2), x(9)]
-    const auto b = stats::medianInterval({1, 2, 3, 4, 5, 6, 7, 8, 9, 10}, 0.95);
-    BOOST_TEST(b.lower == 2.0);
-    BOOST_TEST(b.upper == 9.0);
-}
 
 BOOST_AUTO_TEST_CASE(median_index_with_gap_base_and_minsales) {
     const SalesInput in = sales({{{2024, 1, 5}, 100}, {{2024, 1, 20}, 300}, {{2024, 3, 2}, 150},
@@ -123,48 +62,15 @@ BOOST_AUTO_TEST_CASE(rows_dropped_with_reasons) {
     const IndexResult r = indexMean(in, RawIndexOptions{});
     BOOST_TEST(r.diag.rowsIn == 6u);
     BOOST_TEST(r.diag.rowsUsed == 1u);
-    BOOST_TEST(r.diag.droppedFor(reason::kNonPositivePrice) == 2u);
-    BOOST_TEST(r.diag.droppedFor(reason::kBadDate) == 1u);
-    BOOST_TEST(r.diag.droppedFor(reason::kBadPrice) == 1u);
-    BOOST_TEST(r.diag.droppedFor(reason::kExcluded) == 1u);
+    BOOST_TEST(r.diag.droppedFor(DropReason::NonPositivePrice) == 2u);
+    BOOST_TEST(r.diag.droppedFor(DropReason::BadDate) == 1u);
+    BOOST_TEST(r.diag.droppedFor(DropReason::BadPrice) == 1u);
+    BOOST_TEST(r.diag.droppedFor(DropReason::Excluded) == 1u);
     BOOST_TEST(r.diag.summary() ==
                "1 of 6 rows used; dropped: 1 blank or non-date date, 1 blank or non-numeric price, "
                "2 non-positive price, 1 excluded by include");
     in.include.assign(6, 0);
     BOOST_CHECK_THROW(indexMean(in, RawIndexOptions{}), InputError);  // no usable sale
-}
-
-BOOST_AUTO_TEST_CASE(index_arithmetic_formulas) {
-    // Common practice, no source: rebase 100 I/I_b, change 100 (I_t/I_{t-k} - 1),
-    // log 100 ln(I_t/I_{t-k}), annualised 100 ((I_t/I_{t-k})^(p/k) - 1), P I_target/I_sale.
-    const std::vector<double> starts = {serialFromCivil({2024, 1, 1}), serialFromCivil({2024, 4, 1}),
-                                        serialFromCivil({2024, 7, 1}), serialFromCivil({2024, 10, 1})};
-    const IndexSeries s = IndexSeries::fromColumns(starts, {100, 110, kNoValue, 121});
-    BOOST_TEST((s.freq == Frequency::Quarter));
-    const auto rb = rebaseIndex(s, serialFromCivil({2024, 5, 20}));
-    BOOST_TEST(rb[1] == 100.0);
-    BOOST_TEST(rb[3] == 110.0);
-    BOOST_TEST(std::isnan(rb[2]));
-    const auto pct = indexChange(s.value, 1, ChangeKind::Percent, Frequency::Quarter);
-    BOOST_TEST(std::isnan(pct[0]));
-    BOOST_TEST(pct[1] == 10.0, boost::test_tools::tolerance(1e-12));
-    BOOST_TEST(std::isnan(pct[2]));
-    BOOST_TEST(std::isnan(pct[3]));  // the previous row has no value
-    const auto ann = indexChange(s.value, 2, ChangeKind::Annual, Frequency::Quarter);
-    // 100 -> 121 over 2 quarters: 1.21^(4/2) = 1.4641 -> 46.41 %
-    BOOST_TEST(std::isnan(ann[2]));
-    const auto lg = indexChange({100, 110, 121}, 2, ChangeKind::Log, Frequency::Month);
-    BOOST_TEST(lg[2] == 100 * std::log(1.21), boost::test_tools::tolerance(1e-12));
-    const auto ann2 = indexChange({100, 110, 121}, 2, ChangeKind::Annual, Frequency::Quarter);
-    BOOST_TEST(ann2[2] == 46.41, boost::test_tools::tolerance(1e-12));
-    BOOST_TEST(adjustPrice(s, 200000, serialFromCivil({2024, 2, 10}), serialFromCivil({2024, 12, 31})) ==
-               242000.0, boost::test_tools::tolerance(1e-12));
-    BOOST_CHECK_EXCEPTION(adjustPrice(s, 1, serialFromCivil({2024, 8, 1}), starts[0]), InputError,
-                          [](const InputError& e) {
-                              return std::string(e.what()) ==
-                                     "saledate 2024-08-01 falls on period 2024-07-01 without an index value";
-                          });
-    BOOST_CHECK_THROW(IndexSeries::fromColumns({serialFromCivil({2024, 1, 15})}, {100}), InputError);
 }
 
 BOOST_AUTO_TEST_SUITE_END()

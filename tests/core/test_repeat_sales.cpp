@@ -6,9 +6,12 @@
 
 #include <cmath>
 #include <random>
+#include <set>
 #include <string>
 
 #include "repeat_sales.hpp"
+#include "repeat_sales_internal.hpp"
+#include "text_keys.hpp"
 
 using namespace lintel;
 
@@ -120,7 +123,7 @@ BOOST_AUTO_TEST_CASE(hand_solved_chain) {
     // 2021 rests on one pair for one parameter: no residual degree of freedom, no band.
     Sales s = handExample();
     RepeatSalesOptions o = yearly();
-    o.chain = 1;
+    o.chain = true;
     o.chainInit = 1;
     const RepeatSalesResult r = repeatSalesIndex(s.in, o);
     BOOST_TEST(r.logIndex[1] == 0.10, boost::test_tools::tolerance(1e-12));
@@ -182,8 +185,8 @@ BOOST_AUTO_TEST_CASE(every_filter_and_reason) {
     expect("D", 23, PairStatus::Changed, "property changed at the second sale");
     expect("D", 24, PairStatus::Used, "");  // the next pair starts from the changed sale
     expect("E", 26, PairStatus::SamePeriod, "both sales in one period");
-    expect("F", 28, PairStatus::ShortHold, "held less than 6 months");
-    expect("G", 30, PairStatus::ExtremeReturn, "annualised log return beyond +/-1");
+    expect("F", 28, PairStatus::ShortHold, "held less than minhold months");
+    expect("G", 30, PairStatus::ExtremeReturn, "annualised log return beyond +/-maxrate");
     expect("H", 32, PairStatus::Used, "");
     expect("H", 33, PairStatus::Duplicate, "duplicate sale (same id and date)");
     expect("Z1", 39, PairStatus::NotLinked, "not linked to the base period");
@@ -207,17 +210,29 @@ BOOST_AUTO_TEST_CASE(every_filter_and_reason) {
     // = 20; only sale: J (row 36), S = 2; in no used pair: A2 B1 C1 D1 E E F F G G Z Z Z Z = 14.
     BOOST_TEST(r.diag.rowsIn == 42u);
     BOOST_TEST(r.diag.rowsUsed == 20u);
-    BOOST_TEST(r.diag.droppedFor(reason::kBadPrice) == 1u);
-    BOOST_TEST(r.diag.droppedFor(reason::kNonPositivePrice) == 1u);
-    BOOST_TEST(r.diag.droppedFor(reason::kBlankId) == 1u);
-    BOOST_TEST(r.diag.droppedFor(reason::kExcluded) == 1u);
-    BOOST_TEST(r.diag.droppedFor(reason::kBadDate) == 1u);
-    BOOST_TEST(r.diag.droppedFor(reason::kDuplicateSale) == 1u);
-    BOOST_TEST(r.diag.droppedFor(reason::kSingleSale) == 2u);
-    BOOST_TEST(r.diag.droppedFor(reason::kNoUsedPair) == 14u);
+    BOOST_TEST(r.diag.droppedFor(DropReason::BadPrice) == 1u);
+    BOOST_TEST(r.diag.droppedFor(DropReason::NonPositivePrice) == 1u);
+    BOOST_TEST(r.diag.droppedFor(DropReason::BlankId) == 1u);
+    BOOST_TEST(r.diag.droppedFor(DropReason::Excluded) == 1u);
+    BOOST_TEST(r.diag.droppedFor(DropReason::BadDate) == 1u);
+    BOOST_TEST(r.diag.droppedFor(DropReason::DuplicateSale) == 1u);
+    BOOST_TEST(r.diag.droppedFor(DropReason::SingleSale) == 2u);
+    BOOST_TEST(r.diag.droppedFor(DropReason::NoUsedPair) == 14u);
     BOOST_TEST(r.diag.rowsIn == r.diag.rowsUsed + r.diag.rowsDropped());
     BOOST_TEST(r.pairCounts.formed == 20u);
     BOOST_TEST(r.pairCounts.used == 10u);
+    // Pair counts by reason agree with the audit rows, one entry per distinct reason.
+    std::size_t listed = 0;
+    for (const auto& [why, n] : r.pairCounts.dropped) {
+        std::size_t rows = 0;
+        for (const SalePair& p : r_audit.pairs)
+            rows += p.status == why.status && p.saleProblem == why.sale;
+        BOOST_TEST(n == rows, pairReasonText(why));
+        listed += n;
+    }
+    BOOST_TEST(listed + r.pairCounts.used == r.pairCounts.formed);
+    BOOST_TEST(r.pairCounts.droppedFor({PairStatus::ShortHold, std::nullopt}) == 1u);
+    BOOST_TEST(r.pairCounts.droppedFor({PairStatus::SecondSaleUnusable, DropReason::Excluded}) == 1u);
 
     // Periods without a value are named, and there is no failure.
     BOOST_TEST(r.table.axis.count == 10);
@@ -248,20 +263,21 @@ BOOST_AUTO_TEST_CASE(every_filter_and_reason) {
     tight.minHoldMonths = 13;  // 12-month holds are now flips
     PairAudit r3_audit;
     const RepeatSalesResult r3 = repeatSalesIndex(s.in, tight, &r3_audit);
-    BOOST_TEST(findPair(r3_audit.pairs, "K1", 1)->reason == "held less than 13 months");
+    BOOST_TEST(static_cast<int>(findPair(r3_audit.pairs, "K1", 1)->status) ==
+               static_cast<int>(PairStatus::ShortHold));
     BOOST_TEST(findPair(r3_audit.pairs, "K5", 9)->used);
 }
 
 BOOST_AUTO_TEST_CASE(ids_as_text_and_numbers) {
-    BOOST_TEST(propertyIdFromNumber(123.0) == "123");
-    BOOST_TEST(propertyIdFromNumber(-7.0) == "-7");
-    BOOST_TEST(propertyIdFromNumber(0.0) == "0");
-    BOOST_TEST(propertyIdFromNumber(-0.0) == "0");
-    BOOST_TEST(propertyIdFromNumber(12.5) == "12.5");
-    BOOST_TEST(propertyIdFromNumber(123456789012345.0) == "123456789012345");
-    BOOST_TEST(propertyIdFromNumber(1e6) == "1000000");
-    BOOST_TEST(propertyIdFromNumber(0.1 + 0.2) == "0.30000000000000004");  // round-trip form
-    BOOST_TEST(propertyIdFromNumber(NAN) == "");
+    BOOST_TEST(keyText(123.0) == "123");
+    BOOST_TEST(keyText(-7.0) == "-7");
+    BOOST_TEST(keyText(0.0) == "0");
+    BOOST_TEST(keyText(-0.0) == "0");
+    BOOST_TEST(keyText(12.5) == "12.5");
+    BOOST_TEST(keyText(123456789012345.0) == "123456789012345");
+    BOOST_TEST(keyText(1e6) == "1000000");
+    BOOST_TEST(keyText(0.1 + 0.2) == "0.30000000000000004");  // round-trip form
+    BOOST_TEST(keyText(NAN) == "");
     // The hand example with ids given as numbers (converted as the add-in does), as text with
     // blanks around, and as text: one index.
     Sales text = handExample();
@@ -269,7 +285,7 @@ BOOST_AUTO_TEST_CASE(ids_as_text_and_numbers) {
     Sales padded = handExample();
     const double code[] = {101, 101, 102, 102, 103, 103};
     for (std::size_t i = 0; i < 6; ++i) {
-        num.in.id[i] = propertyIdFromNumber(code[i]);
+        num.in.id[i] = keyText(code[i]);
         text.in.id[i] = std::to_string(static_cast<int>(code[i]));
         padded.in.id[i] = "  " + text.in.id[i] + " ";
     }
@@ -289,7 +305,7 @@ BOOST_AUTO_TEST_CASE(ids_as_text_and_numbers) {
     cs.add("B", day(2020, 1, 1), 100).add("B", day(2021, 6, 1), 110);
     const RepeatSalesResult d = repeatSalesIndex(cs.in, yearly());
     BOOST_TEST(d.pairCounts.formed == 1u);
-    BOOST_TEST(d.diag.droppedFor(reason::kSingleSale) == 2u);
+    BOOST_TEST(d.diag.droppedFor(DropReason::SingleSale) == 2u);
 }
 
 BOOST_AUTO_TEST_CASE(duplicate_sales_of_one_id_on_one_date) {
@@ -315,15 +331,16 @@ BOOST_AUTO_TEST_CASE(duplicate_sales_of_one_id_on_one_date) {
     BOOST_REQUIRE(d3);
     BOOST_TEST(d1->firstRow == 2u);
     BOOST_TEST(d3->firstRow == 2u);
-    BOOST_TEST(d1->reason == reason::kDuplicateSale);
+    BOOST_TEST(static_cast<int>(d1->status) == static_cast<int>(PairStatus::Duplicate));
+    BOOST_TEST(d1->reason == "duplicate sale (same id and date)");
     BOOST_TEST(static_cast<int>(d3->status) == static_cast<int>(PairStatus::Duplicate));
     const SalePair* out = findPair(r_audit.pairs, "P", 4);
     BOOST_REQUIRE(out);
     BOOST_TEST(out->firstRow == 2u);  // the chain continues from the kept sale
     BOOST_TEST(out->used);
     // Row 1 stays counted as a bad price, row 3 (usable) as a duplicate.
-    BOOST_TEST(r.diag.droppedFor(reason::kBadPrice) == 1u);
-    BOOST_TEST(r.diag.droppedFor(reason::kDuplicateSale) == 1u);
+    BOOST_TEST(r.diag.droppedFor(DropReason::BadPrice) == 1u);
+    BOOST_TEST(r.diag.droppedFor(DropReason::DuplicateSale) == 1u);
     BOOST_TEST(r.diag.rowsIn == r.diag.rowsUsed + r.diag.rowsDropped());
 }
 
@@ -379,7 +396,7 @@ BOOST_AUTO_TEST_CASE(chain_never_revises_published_values) {
                                      RepeatSalesMethod::CaseShillerQuadratic}) {
         RepeatSalesOptions o;
         o.method = method;
-        o.chain = 1;
+        o.chain = true;
         RepeatSalesResult prev;
         bool havePrev = false;
         for (int cut = 30; cut <= 60; cut += 6) {  // data up to month `cut` (exclusive)
@@ -411,7 +428,7 @@ BOOST_AUTO_TEST_CASE(chain_never_revises_published_values) {
         }
         // The joint estimate on the same cuts does revise (so the check above can fail).
         RepeatSalesOptions joint = o;
-        joint.chain = 0;
+        joint.chain = false;
         RepeatSalesInput a, b;
         for (const Row& r : rows) {
             for (RepeatSalesInput* in : {&a, &b}) {
@@ -440,7 +457,7 @@ BOOST_AUTO_TEST_CASE(chain_unreached_and_thin_periods) {
     s.add("C", day(2013, 4, 5), 100).add("C", day(2015, 6, 5), 103);  // 2013 (no value) -> 2015
     s.add("D", day(2010, 4, 5), 100).add("D", day(2014, 6, 5), 120);  // 2010 -> 2014
     RepeatSalesOptions o = yearly();
-    o.chain = 1;
+    o.chain = true;
     o.chainInit = 1;
     PairAudit r_audit;
     const RepeatSalesResult r = repeatSalesIndex(s.in, o, &r_audit);
@@ -457,6 +474,13 @@ BOOST_AUTO_TEST_CASE(chain_unreached_and_thin_periods) {
     BOOST_CHECK_THROW(repeatSalesIndex(s.in, o), InputError);  // no period has a value
     const PairAudit a = repeatSalesPairs(s.in, o);
     BOOST_TEST(hasWarning(a.diag, "index not estimated"));
+    // The reason is a field of its own (RSPAIRS reads it there), the same words as CHAINRS's.
+    BOOST_REQUIRE(a.notEstimated.has_value());
+    try {
+        repeatSalesIndex(s.in, o);
+    } catch (const InputError& e) {
+        BOOST_TEST(*a.notEstimated == e.what());
+    }
     o.minSales = 1;
     o.chainInit = 1;
     Sales t = s;
@@ -466,7 +490,7 @@ BOOST_AUTO_TEST_CASE(chain_unreached_and_thin_periods) {
     const RepeatSalesResult r2 = repeatSalesIndex(t.in, o, &r2_audit);
     BOOST_TEST(hasValue(r2.table.index[1]));
     BOOST_TEST(!hasValue(r2.table.index[2]));
-    BOOST_TEST(findPair(r2_audit.pairs, "B", 3)->reason == "fewer than 2 pairs end in the period");
+    BOOST_TEST(findPair(r2_audit.pairs, "B", 3)->reason == "fewer than minsales pairs end in the period");
 }
 
 BOOST_AUTO_TEST_CASE(minsales_hides_thin_periods_in_joint_estimate) {
@@ -573,7 +597,7 @@ BOOST_AUTO_TEST_CASE(errors_in_the_users_words) {
     BOOST_TEST(message(blank.in, o).find("no usable pair of sales") == 0);
     const PairAudit ab = repeatSalesPairs(blank.in, o);
     BOOST_TEST(ab.pairs.empty());
-    BOOST_TEST(ab.diag.droppedFor(reason::kBlankId) == 2u);
+    BOOST_TEST(ab.diag.droppedFor(DropReason::BlankId) == 2u);
     BOOST_TEST(message(RepeatSalesInput{}, o).find("no usable pair of sales") == 0);
 
     RepeatSalesOptions bad = o;
@@ -583,8 +607,11 @@ BOOST_AUTO_TEST_CASE(errors_in_the_users_words) {
     bad.maxRate = NAN;
     BOOST_TEST(message(s.in, bad).find("maxrate") == 0);
     bad = o;
-    bad.chain = 2;
-    BOOST_TEST(message(s.in, bad) == "chain must be 0 or 1, got 2");
+    bad.chainInit = 0;
+    BOOST_TEST(message(s.in, bad) == "init must be 1 or more periods, got 0");
+    BOOST_CHECK_THROW(bad.validate(), InputError);  // the same check on its own
+    bad.chainInit = 1;
+    BOOST_CHECK_NO_THROW(bad.validate());
     bad = o;
     bad.level = 1.5;
     BOOST_TEST(message(s.in, bad).find("level") == 0);
@@ -626,6 +653,30 @@ BOOST_AUTO_TEST_CASE(pairs_given_directly) {
     BOOST_TEST(r.diag.rowsUsed == 3u);
 }
 
+BOOST_AUTO_TEST_CASE(pair_reason_slots_cover_every_reason) {
+    // Pair reasons are counted (countPairs) and their texts cached (the audit) in tables indexed
+    // by pairReasonSlot. Every status with every sale reason, or none, lands inside the table on
+    // a slot of its own. (Before, a fixed table of 64 slots was indexed by status * 5 + sale
+    // problem without a bounds check: any new status or reason would have written past it.)
+    std::set<std::size_t> seen;
+    for (std::size_t st = 0; st < kPairStatusCount; ++st) {
+        const auto status = static_cast<PairStatus>(st);
+        seen.insert(rs_detail::pairReasonSlot({status, std::nullopt}));
+        for (std::size_t d = 0; d < kDropReasonCount; ++d)
+            seen.insert(rs_detail::pairReasonSlot({status, static_cast<DropReason>(d)}));
+    }
+    BOOST_TEST(seen.size() == rs_detail::kPairReasonSlots);
+    BOOST_TEST(*seen.rbegin() == rs_detail::kPairReasonSlots - 1);
+    // Texts: one per status, the sale's row reason after "first sale: " / "second sale: ".
+    BOOST_TEST(pairReasonText({PairStatus::Used, std::nullopt}).empty());
+    BOOST_TEST(pairReasonText({PairStatus::FirstSaleUnusable, DropReason::BadDate}) ==
+               "first sale: blank or non-date date");
+    BOOST_TEST(pairReasonText({PairStatus::ThinPeriod, std::nullopt}) ==
+               "fewer than minsales pairs end in the period");
+    for (std::size_t st = 1; st < kPairStatusCount; ++st)
+        BOOST_TEST(!std::string(pairStatusText(static_cast<PairStatus>(st))).empty());
+}
+
 BOOST_AUTO_TEST_CASE(method_names) {
     BOOST_TEST((parseRepeatSalesMethod(" CS ") == RepeatSalesMethod::CaseShiller));
     BOOST_TEST((parseRepeatSalesMethod("bmn") == RepeatSalesMethod::BaileyMuthNourse));
@@ -635,7 +686,9 @@ BOOST_AUTO_TEST_CASE(method_names) {
     const RepeatSalesOptions o;
     BOOST_TEST(o.minHoldMonths == 6.0);
     BOOST_TEST(o.maxRate == 1.0);
-    BOOST_TEST(o.chain == 0);
+    BOOST_TEST(!o.chain);
+    BOOST_TEST(!o.chainInit.has_value());
+    BOOST_TEST(o.initialPeriods() == 24);  // two years of months
     BOOST_TEST((o.method == RepeatSalesMethod::CaseShiller));
 }
 

@@ -231,10 +231,10 @@ BOOST_AUTO_TEST_CASE(messy_table) {
     BOOST_TEST(r.used[24] == 1);
     BOOST_TEST(r.used[17] == 0);
     BOOST_TEST(r.used[18] == 0);
-    BOOST_TEST(r.diagnostics.droppedFor("duplicate") == 1u);
-    BOOST_TEST(r.diagnostics.droppedFor("conflicting prices") == 2u);
-    BOOST_TEST(r.diagnostics.droppedFor(reason::kEmptyRow) == 1u);
-    BOOST_TEST(r.diagnostics.droppedFor(reason::kExcluded) == 1u);
+    BOOST_TEST(r.diagnostics.droppedFor(DropReason::DuplicateRow) == 1u);
+    BOOST_TEST(r.diagnostics.droppedFor(DropReason::ConflictingPrices) == 2u);
+    BOOST_TEST(r.diagnostics.droppedFor(DropReason::EmptyRow) == 1u);
+    BOOST_TEST(r.diagnostics.droppedFor(DropReason::Excluded) == 1u);
     BOOST_TEST(r.count(SaleProblem::PriceOutlier) == 1u);
     BOOST_TEST(r.count(SaleProblem::BlankSegment) == 1u);
     BOOST_TEST(r.counts.size() == kSaleProblemCount);

@@ -41,6 +41,13 @@ std::optional<double> optionalNumber(const refcli::Args& a, const std::string& k
     return std::nullopt;
 }
 
+// A whole-number option; nullopt when not given.
+std::optional<int> optionalInt(const refcli::Args& a, const std::string& key) {
+    const auto x = optionalNumber(a, key);
+    if (x) return static_cast<int>(*x);
+    return std::nullopt;
+}
+
 void report(const Diagnostics& d) {
     std::fprintf(stderr, "%s\n", d.summary().c_str());
     for (const auto& w : d.warnings) std::fprintf(stderr, "warning: %s\n", w.c_str());
@@ -121,8 +128,8 @@ const refcli::Register regSnr("snr", [](const refcli::Table& t, const refcli::Ar
 const refcli::Register regLeadLag("leadlag", [](const refcli::Table& t, const refcli::Args& a) {
     LeadLagOptions o;
     o.freq = freqArg(a);
-    o.changeLag = static_cast<int>(refcli::number(a, "lag", 0));
-    o.maxLag = static_cast<int>(refcli::number(a, "maxlag", -1));
+    o.changeLag = optionalInt(a, "lag");
+    o.maxLag = optionalInt(a, "maxlag");
     o.minPairs = static_cast<std::size_t>(refcli::number(a, "minpairs", 3));
     const LeadLagResult r = indexLeadLag({t.numbers("a"), t.numbers("b")}, o);
     report(r.diag);
@@ -140,10 +147,10 @@ const refcli::Register regLeadLag("leadlag", [](const refcli::Table& t, const re
 const refcli::Register regTurns("turns", [](const refcli::Table& t, const refcli::Args& a) {
     TurnsOptions o;
     if (a.count("freq")) o.freq = freqArg(a);
-    o.window = static_cast<int>(refcli::number(a, "window", -1));
-    o.minPhase = static_cast<int>(refcli::number(a, "minphase", -1));
-    o.minCycle = static_cast<int>(refcli::number(a, "mincycle", -1));
-    o.ends = static_cast<int>(refcli::number(a, "ends", -1));
+    o.window = optionalInt(a, "window");
+    o.minPhase = optionalInt(a, "minphase");
+    o.minCycle = optionalInt(a, "mincycle");
+    o.ends = optionalInt(a, "ends");
     const TurnsResult r = indexTurns({t.numbers("period"), t.numbers("index")}, o);
     report(r.diag);
     std::vector<double> period, peak, value, months;
@@ -175,8 +182,8 @@ const refcli::Register regCompare("compare", [](const refcli::Table& t, const re
     CompareOptions o;
     o.freq = freqArg(a);
     o.lag = static_cast<int>(refcli::number(a, "lag", 1));
-    o.changeLag = static_cast<int>(refcli::number(a, "leadlag", 0));
-    o.maxLag = static_cast<int>(refcli::number(a, "maxlag", -1));
+    o.changeLag = optionalInt(a, "leadlag");
+    o.maxLag = optionalInt(a, "maxlag");
     o.lambda = optionalNumber(a, "lambda");
     const CompareResult r = indexCompare(in, o);
     report(r.diag);

@@ -122,7 +122,7 @@ const refcli::Register regCoefs("hedonic_coefs", [](const refcli::Table& t,
     for (const auto& d : f.droppedTerms)
         std::printf("dropped,%s,,,,%s\n", quoted(d.name).c_str(), quoted(d.why).c_str());
     for (const auto& [why, n] : f.diag.dropped)
-        std::printf("reason,%s,%zu,,,\n", quoted(why).c_str(), n);
+        std::printf("reason,%s,%zu,,,\n", quoted(lintel::dropReasonText(why)).c_str(), n);
     return 0;
 });
 
@@ -146,7 +146,8 @@ const refcli::Register regHome("hedonic_home", [](const refcli::Table& t,
     const lintel::RefHomeResult r = lintel::referenceHomeValue(in, home, readOptions(a));
     printDiag(r.diag);
     refcli::printColumns({"period", "value", "lower", "upper", "sales"},
-                         {refcli::periodStarts(r.axis), r.value, r.lower, r.upper, refcli::asNumbers(r.count)});
+                         {refcli::periodStarts(r.table.axis), r.value(), r.table.lower, r.table.upper,
+                          refcli::asNumbers(r.table.count)});
     const std::string out = refcli::text(a, "homeout", "");
     if (!out.empty()) {
         std::ofstream f(out);

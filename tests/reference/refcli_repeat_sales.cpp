@@ -12,13 +12,14 @@
 //       -> as repeat_sales_index
 // Options: freq=M base=<serial> method=cs|bmn|cs2 minhold=6 maxrate=1 chain=0 init=0
 //          minsales=1 level=0.95 numericid=0 (1: read ids as numbers and convert them with
-//          propertyIdFromNumber, as the add-in does for numeric cells)
+//          keyText, as the add-in does for numeric cells)
 #include <cmath>
 #include <cstdio>
 #include <stdexcept>
 #include <string>
 
 #include "repeat_sales.hpp"
+#include "text_keys.hpp"
 #include "refcli.hpp"
 
 namespace {
@@ -35,8 +36,8 @@ lintel::RepeatSalesOptions options(const refcli::Args& a) {
     o.method = *m;
     o.minHoldMonths = refcli::number(a, "minhold", o.minHoldMonths);
     o.maxRate = refcli::number(a, "maxrate", o.maxRate);
-    o.chain = static_cast<int>(refcli::number(a, "chain", 0));
-    o.chainInit = static_cast<int>(refcli::number(a, "init", 0));
+    o.chain = refcli::number(a, "chain", 0) != 0;
+    if (const double init = refcli::number(a, "init", 0); init > 0) o.chainInit = static_cast<int>(init);
     o.minSales = static_cast<std::size_t>(refcli::number(a, "minsales", 1));
     o.level = refcli::number(a, "level", 0.95);
     return o;
@@ -45,7 +46,7 @@ lintel::RepeatSalesOptions options(const refcli::Args& a) {
 lintel::RepeatSalesInput input(const refcli::Table& t, const refcli::Args& a) {
     lintel::RepeatSalesInput in;
     if (refcli::number(a, "numericid", 0) != 0)
-        for (double x : t.numbers("id")) in.id.push_back(lintel::propertyIdFromNumber(x));
+        for (double x : t.numbers("id")) in.id.push_back(lintel::keyText(x));
     else
         in.id = t.text("id");
     in.sales.date = t.numbers("date");
@@ -124,10 +125,10 @@ const refcli::Register regDiag("repeat_sales_diag", [](const auto& t, const auto
     std::printf("kind,name,value\n");
     std::printf("rows_in,,%zu\nrows_used,,%zu\n", audit.diag.rowsIn, audit.diag.rowsUsed);
     for (const auto& [r, c] : audit.diag.dropped)
-        std::printf("dropped,%s,%zu\n", quoted(r).c_str(), c);
+        std::printf("dropped,%s,%zu\n", quoted(lintel::dropReasonText(r)).c_str(), c);
     std::printf("pairs_formed,,%zu\npairs_used,,%zu\n", audit.counts.formed, audit.counts.used);
     for (const auto& [r, c] : audit.counts.dropped)
-        std::printf("pairs_dropped,%s,%zu\n", quoted(r).c_str(), c);
+        std::printf("pairs_dropped,%s,%zu\n", quoted(lintel::pairReasonText(r)).c_str(), c);
     for (const auto& w : audit.diag.warnings) std::printf("warning,%s,\n", quoted(w).c_str());
     return 0;
 });

@@ -1,0 +1,139 @@
+#include "statistics.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <numeric>
+
+#include <boost/math/distributions/binomial.hpp>
+#include <boost/math/distributions/students_t.hpp>
+
+namespace lintel::stats {
+
+double median(std::vector<double> v) {
+    if (v.empty()) return kNoValue;
+    const std::size_t n = v.size(), h = n / 2;
+    const auto mid = v.begin() + static_cast<std::ptrdiff_t>(h);
+    std::nth_element(v.begin(), mid, v.end());
+    const double hi = *mid;
+    if (n % 2) return hi;
+    const double lo = *std::max_element(v.begin(), mid);
+    return 0.5 * (lo + hi);
+}
+
+namespace {
+// floor(trim * n): the values cut from each end.
+std::size_t trimCount(double trim, std::size_t n) {
+    return static_cast<std::size_t>(std::floor(trim * static_cast<double>(n)));
+}
+}  // namespace
+
+double trimmedMean(std::vector<double> v, double trim) {
+    if (v.empty()) return kNoValue;
+    std::sort(v.begin(), v.end());
+    const std::size_t g = trimCount(trim, v.size());
+    if (2 * g >= v.size()) return kNoValue;
+    double s = 0;
+    for (std::size_t i = g; i < v.size() - g; ++i) s += v[i];
+    return s / static_cast<double>(v.size() - 2 * g);
+}
+
+double quantile(const std::vector<double>& sorted, double p) {
+    const double h = static_cast<double>(sorted.size() - 1) * p;
+    const std::size_t lo = static_cast<std::size_t>(std::floor(h));
+    const std::size_t hi = std::min(lo + 1, sorted.size() - 1);
+    return sorted[lo] + (h - static_cast<double>(lo)) * (sorted[hi] - sorted[lo]);
+}
+
+double studentTQuantile(double p, double df) {
+    boost::math::students_t dist(df);
+    return boost::math::quantile(dist, p);
+}
+
+double tCritical(double level, double df) { return studentTQuantile(0.5 + level / 2, df); }
+
+Interval meanInterval(const std::vector<double>& values, double trim, double level) {
+    std::vector<double> v(values);
+    std::sort(v.begin(), v.end());
+    const std::size_t n = v.size();
+    const std::size_t g = trimCount(trim, n);
+    if (n < 2 || n <= 2 * g + 1) return {};
+    // Winsorize g values at each end (g = 0: the plain sample).
+    for (std::size_t i = 0; i < g; ++i) {
+        v[i] = v[g];
+        v[n - 1 - i] = v[n - 1 - g];
+    }
+    const double nd = static_cast<double>(n);
+    const double mw = std::accumulate(v.begin(), v.end(), 0.0) / nd;
+    double ss = 0;
+    for (double x : v) ss += (x - mw) * (x - mw);
+    const double sw = std::sqrt(ss / (nd - 1));
+    const double h = static_cast<double>(n - 2 * g);
+    const double se = sw * std::sqrt(nd) / h;  // = s_w/((1-2g/n) sqrt n)
+    const double df = h - 1;
+    const double centre = trimmedMean(values, trim);
+    const double t = tCritical(level, df);
+    return {centre - t * se, centre + t * se};
+}
+
+Interval medianInterval(const std::vector<double>& sorted, double level) {
+    const std::size_t n = sorted.size();
+    if (n < 2) return {};
+    // Coverage of [x_(j), x_(n+1-j)] is 1 - 2 P(B <= j-1), B ~ binomial(n, 1/2).
+    boost::math::binomial dist(static_cast<double>(n), 0.5);
+    const double alphaHalf = (1 - level) / 2;
+    std::size_t best = 0;
+    for (std::size_t j = 1; 2 * j <= n + 1; ++j) {
+        if (boost::math::cdf(dist, static_cast<double>(j - 1)) <= alphaHalf + 1e-12)
+            best = j;
+        else
+            break;
+    }
+    if (best == 0) return {};
+    return {sorted[best - 1], sorted[n - best]};
+}
+
+double sampleSd(const std::vector<double>& v, std::size_t* count) {
+    double s = 0;
+    std::size_t k = 0;
+    for (double x : v)
+        if (hasValue(x)) {
+            s += x;
+            ++k;
+        }
+    if (count) *count = k;
+    if (k < 2) return kNoValue;
+    const double kd = static_cast<double>(k);
+    const double m = s / kd;
+    double ss = 0;
+    for (double x : v)
+        if (hasValue(x)) ss += (x - m) * (x - m);
+    return std::sqrt(ss / (kd - 1));
+}
+
+double pearson(const std::vector<double>& x, const std::vector<double>& y, std::size_t* pairs) {
+    const std::size_t n = std::min(x.size(), y.size());
+    double sx = 0, sy = 0;
+    std::size_t k = 0;
+    for (std::size_t i = 0; i < n; ++i)
+        if (hasValue(x[i]) && hasValue(y[i])) {
+            sx += x[i];
+            sy += y[i];
+            ++k;
+        }
+    if (pairs) *pairs = k;
+    if (k < 2) return kNoValue;
+    const double mx = sx / static_cast<double>(k), my = sy / static_cast<double>(k);
+    double sxx = 0, syy = 0, sxy = 0;
+    for (std::size_t i = 0; i < n; ++i)
+        if (hasValue(x[i]) && hasValue(y[i])) {
+            const double dx = x[i] - mx, dy = y[i] - my;
+            sxx += dx * dx;
+            syy += dy * dy;
+            sxy += dx * dy;
+        }
+    if (!(sxx > 0) || !(syy > 0)) return kNoValue;
+    const double r = sxy / std::sqrt(sxx * syy);
+    return std::max(-1.0, std::min(1.0, r));
+}
+
+}  // namespace lintel::stats
