@@ -645,4 +645,69 @@ std::vector<double> Run::smoothedCovarianceWith(const VectorXd& c, int b) const 
     return out;
 }
 
+std::vector<double> Run::filteredCovarianceWith(const VectorXd& c, int b) const {
+    std::vector<double> out(static_cast<std::size_t>(n_), kNaN);
+    auto at = [&](int t) -> const Period& { return per_[static_cast<std::size_t>(t)]; };
+    // Pieces of period t's own update: N^(t)_{t-1} = Z' F^-1 Z and the gamma part of the
+    // filtered state, G_{t|t} = W_t - P_t Z' F^-1 V_t.
+    auto ownN = [&](const Period& p) {
+        return p.observed.empty() ? MatrixXd(MatrixXd::Zero(m_, m_))
+                                  : MatrixXd(p.Zo.transpose() * p.Finv * p.Zo);
+    };
+    auto filteredG = [&](const Period& p) {
+        return p.observed.empty() ? MatrixXd(p.W)
+                                  : MatrixXd(p.W - p.P * p.Zo.transpose() * p.FinvV);
+    };
+    auto gammaPart = [&](const GammaPosterior& post, const VectorXd& g1, const VectorXd& g2,
+                         double& value) {
+        if (!post.identifies(g1) || !post.identifies(g2)) return false;
+        value = g1.dot(post.cov * g2);
+        return true;
+    };
+    const Period& pb = at(b);
+    {  // t = b: the filtered variance.
+        const Moments f = filtered(c);
+        out[static_cast<std::size_t>(b)] = f.variance[static_cast<std::size_t>(b)];
+    }
+    // t < b: data up to b. Fixed-gamma part c' P_t L_t' ... L_{b-1}' (I - N^(b)_{b-1} P_b) c;
+    // R^(b) runs backwards from b.
+    {
+        const GammaPosterior post = posterior(pb.S + prior_, pb.s);
+        const VectorXd gb = filteredG(pb).transpose() * c;
+        VectorXd w = c - ownN(pb) * (pb.P * c);
+        MatrixXd R = pb.observed.empty() ? MatrixXd(MatrixXd::Zero(m_, q_ + k_))
+                                         : MatrixXd(pb.Zo.transpose() * pb.FinvV);
+        for (int t = b - 1; t >= 0; --t) {
+            const Period& p = at(t);
+            w = p.L.transpose() * w;
+            R = p.L.transpose() * R;
+            if (!p.observed.empty()) R += p.Zo.transpose() * p.FinvV;
+            const VectorXd gt = (p.W - p.P * R).transpose() * c;
+            double gp = 0;
+            if (gammaPart(post, gt, gb, gp))
+                out[static_cast<std::size_t>(t)] = c.dot(p.P * w) + gp;
+        }
+    }
+    // t > b: data up to t. u_t = c' P_b L_b' ... L_{t-1}'; fixed part u_t (I - N^(t)_{t-1} P_t) c;
+    // c' G^(t)_b = c' W_b - sum_{j=b..t} u_j Z_j' F_j^-1 V_j.
+    {
+        Eigen::RowVectorXd u = c.transpose() * pb.P;
+        Eigen::RowVectorXd acc = Eigen::RowVectorXd::Zero(q_ + k_);
+        if (!pb.observed.empty()) acc += u * pb.Zo.transpose() * pb.FinvV;
+        const Eigen::RowVectorXd cWb = c.transpose() * pb.W;
+        for (int t = b + 1; t < n_; ++t) {
+            const Period& p = at(t);
+            u = u * at(t - 1).L.transpose();
+            if (!p.observed.empty()) acc += u * p.Zo.transpose() * p.FinvV;
+            const GammaPosterior post = posterior(p.S + prior_, p.s);
+            const VectorXd gbt = (cWb - acc).transpose();
+            const VectorXd gt = filteredG(p).transpose() * c;
+            double gp = 0;
+            if (gammaPart(post, gbt, gt, gp))
+                out[static_cast<std::size_t>(t)] = u.dot(c - ownN(p) * (p.P * c)) + gp;
+        }
+    }
+    return out;
+}
+
 }  // namespace lintel::statespace

@@ -111,6 +111,11 @@ public:
     // Cov(alpha_t, alpha_j | y) = P_t L_t' ... L_{j-1}' (I - N_{j-1} P_j), plus the gamma part
     // G_t Sp^-1 G_j').
     std::vector<double> smoothedCovarianceWith(const Eigen::VectorXd& c, int base) const;
+    // For the real-time estimates f_t = E(c' alpha_t | y_1..y_t): Cov(e_t, e_base) of their
+    // errors e_t = c' alpha_t - f_t for every t. Since e_t is orthogonal to y_1..y_t, this is
+    // Cov(c' alpha_t, c' alpha_base | y_1..y_max(t, base)): the cross-covariance above for a
+    // smoother run on the data up to max(t, base). NaN where not identified.
+    std::vector<double> filteredCovarianceWith(const Eigen::VectorXd& c, int base) const;
 
     struct Period {  // per-period filter and smoother quantities (D&K notation)
         Eigen::VectorXd a;         // predicted state mean (gamma = 0)

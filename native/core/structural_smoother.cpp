@@ -559,13 +559,25 @@ IndexResult smoothedIndex(const SmootherResult& r, const PeriodAxis& axis,
     IndexTable& t = out.table;
     t.axis = axis;
     t.count = counts;
+    if (r.realtime && o.baseDate) {
+        const int want = axis.positionOf(*o.baseDate);
+        if (want >= 0 && !hasValue(L[at(want)]))
+            throw InputError(fmt::format("the base period {} has no real-time value: the model "
+                                         "needs more periods with sales before it",
+                                         axis.label(want)));
+    }
     const int b = resolveBase(axis, L, o);
     t.basePosition = b;
     const double z =
         boost::math::quantile(boost::math::normal_distribution<double>(), 0.5 + 0.5 * o.level);
     std::vector<double> var(at(r.periods), kNoValue);
     if (r.realtime) {
-        for (int i = 0; i < r.periods; ++i) var[at(i)] = i == b ? 0.0 : r.filteredVariance[at(i)];
+        const std::vector<double> cov = r.run->filteredCovarianceWith(r.signal, b);
+        for (int i = 0; i < r.periods; ++i)
+            if (hasValue(r.filteredVariance[at(i)]) && hasValue(cov[at(i)]))
+                var[at(i)] = std::max(0.0, r.filteredVariance[at(i)] + r.filteredVariance[at(b)] -
+                                               2 * cov[at(i)]);
+        var[at(b)] = 0;
     } else {
         const std::vector<double> cov = r.levelCovarianceWith(b);
         for (int i = 0; i < r.periods; ++i)

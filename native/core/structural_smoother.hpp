@@ -142,7 +142,8 @@ SmootherResult borrowStrength(const BorrowInput& input, const SmootherOptions& o
 // index_t = 100 exp(L_t - L_base), L the smoothed level (result.realtime: the filtered level), band
 // 100 exp(L_t - L_base -/+ z sd), with
 //   smoothed: sd^2 = Var(L_t) + Var(L_base) - 2 Cov(L_t, L_base | all data);
-//   realtime: sd^2 = Var(L_t | data up to t), the base taken as fixed (as the plain indexes).
+//   realtime: sd^2 = Var(e_t) + Var(e_base) - 2 Cov(e_t, e_base), e_t the error of the
+//             filtered level of period t (Cov from the data up to the later of t and base).
 // counts: sales (or pairs) per period, shown in the table. options: base, level; minSales
 // is not applied (a period without sales has a value).
 IndexResult smoothedIndex(const SmootherResult& result, const PeriodAxis& axis,

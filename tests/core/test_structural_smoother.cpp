@@ -213,6 +213,42 @@ BOOST_AUTO_TEST_CASE(real_time_values_never_revise) {
     BOOST_TEST(close(idx.table.index[30], 100 * std::exp(a.filtered[30] - a.filtered[0]), 1e-9));
 }
 
+BOOST_AUTO_TEST_CASE(real_time_band_uses_the_covariance_up_to_the_later_period) {
+    // Cov(e_t, e_base) of the filtered errors equals the smoothed cross-covariance of a run on
+    // the data cut after max(t, base) (the definition, computed the long way), here with a
+    // seasonal model (states identified only after a year) and gaps.
+    PeriodEffects full = simulated(48, 17);
+    full.value[5] = full.value[30] = kNoValue;
+    SmootherOptions o;
+    o.seasonal = true;
+    o.realtime = true;
+    o.variances = SmootherVariances{};
+    o.variances->level = 1.6e-5;
+    o.variances->slope = 1.6e-7;
+    o.variances->seasonal = 1e-6;
+    const SmootherResult r = smoothPeriodEffects(full, o);
+    const int base = 20;
+    const std::vector<double> fast = r.run->filteredCovarianceWith(r.signal, base);
+    for (int t = 0; t < 48; ++t) {
+        const int last = std::max(t, base);
+        PeriodEffects cut = full;
+        cut.value.resize(static_cast<std::size_t>(last + 1));
+        cut.variance.resize(static_cast<std::size_t>(last + 1));
+        const SmootherResult c = smoothPeriodEffects(cut, o);
+        const double slow = c.levelCovarianceWith(base)[static_cast<std::size_t>(t)];
+        BOOST_TEST(close(fast[t], slow, 1e-12 + 1e-9 * std::fabs(slow)));
+    }
+    // The index band: Var(e_t) + Var(e_base) - 2 Cov, zero at the base.
+    const PeriodAxis axis = PeriodAxis::spanning(2019L * 12, 2019L * 12 + 47, Frequency::Month);
+    IndexOptions io;
+    io.baseDate = axis.start(base);
+    const IndexResult idx = smoothedIndex(r, axis, std::vector<std::size_t>(48, 1), io);
+    BOOST_TEST(idx.table.lower[base] == 100.0);
+    const double sd = std::sqrt(r.filteredVariance[40] + r.filteredVariance[base] - 2 * fast[40]);
+    BOOST_TEST(close(idx.table.upper[40],
+                     100 * std::exp(r.filtered[40] - r.filtered[base] + 1.959963984540054 * sd), 1e-8));
+}
+
 BOOST_AUTO_TEST_CASE(fast_likelihood_equals_the_full_run) {
     // The likelihood-only pass (univariate, collapsed) and the full run compute the same
     // diffuse log-likelihood: with a shared error, two correlated series and gaps.

@@ -10,6 +10,7 @@ y = X beta + e with e ~ N(0, Sigma) and Sigma the FULL sampling covariance. Then
 beta_hat = (X' Sigma^-1 X + Pi)^-1 X' Sigma^-1 y and Cov = (X' Sigma^-1 X + Pi)^-1 (Pi the prior
 precision), the level L_t = c' A_t beta, the index 100 exp(L_t - L_base) with the band
 exp(+-1.96 sd(L_t - L_base)). The Kalman smoother must give the same numbers to about 1e-8.
+The real-time (filtered) level of period t is the same GLS on the data up to t.
 
 Part 1 (generated period effects, seed 20260415): 96 months, local linear trend + seasonal
 (12), h_t = 0.2^2 / n_t with n_t uniform on 10..25 and periods 7, 30, 31 without sales, plus a
@@ -100,11 +101,24 @@ def gls(T, Z, comps, variances, y, Sigma, c, base, observed_rows=None):
         for k, (j, v) in enumerate(pos):
             prior[m + t * len(pos) + k] = 1 / v
     Lam = X.T @ Si @ X + np.diag(prior)
-    cov = np.linalg.inv(Lam)
+    # Generalised inverse D pinv(D Lam D) D (D = diag(Lam)^-1/2): with few data (the real-time
+    # runs) not every state is identified, but an estimable level is the same for any
+    # generalised inverse; a level whose row is not in Lam's row space is NaN.
+    dl = np.diag(Lam)
+    Dg = 1 / np.sqrt(np.where(dl > 0, dl, 1.0))
+    w, E = np.linalg.eigh(Dg[:, None] * Lam * Dg[None, :])
+    keep = w > 1e-10 * w.max()
+    cov = (Dg[:, None] * (E[:, keep] / w[keep]) @ E[:, keep].T) * Dg[None, :]
+    null = E[:, ~keep]
     bhat = cov @ (X.T @ Si @ yy)
     C = np.array([c @ As[t] for t in range(n)])
     L = C @ bhat
     V = C @ cov @ C.T
+    Cs = C * Dg[None, :]  # rows in the scaled coordinates (beta = D beta_s)
+    unidentified = np.linalg.norm(Cs @ null, axis=1) > 1e-7 * np.linalg.norm(Cs, axis=1)
+    L[unidentified] = np.nan
+    V[unidentified, :] = np.nan
+    V[:, unidentified] = np.nan
     d = L - L[base]
     sd = np.sqrt(np.maximum(np.diag(V) + V[base, base] - 2 * V[:, base], 0))
     return L, V, 100 * np.exp(d), 100 * np.exp(d - Z975 * sd), 100 * np.exp(d + Z975 * sd)
@@ -142,6 +156,25 @@ opts = dict(trend="trend", seasonal=1, v_level=variances[0], v_slope=variances[1
 
 got = run_refcli(args.refcli, "smooth", pd.DataFrame({"value": y, "variance": np.nan_to_num(h)}), **opts)
 compare("known h, trend + seasonal", got, gls(T, Zd, comps, variances, y[:, None], np.diag(h[obs]), Zd[0], base), base)
+
+# Real time (realtime=1): the published level of period t is the GLS mean on the data up to t;
+# its band: Var(e_t) + Var(e_base) - 2 Cov(L_t, L_base | data up to max(t, base)).
+got_rt = run_refcli(args.refcli, "smooth", pd.DataFrame({"value": y, "variance": np.nan_to_num(h)}), realtime=1, **opts)
+f = np.full(n, np.nan)
+fvar = np.full(n, np.nan)
+runs = {}
+for t in range(n):
+    yt = y[:t + 1, None]
+    runs[t] = gls(T, Zd, comps, variances, yt, np.diag(h[:t + 1][obs[:t + 1]]), Zd[0], 0)
+    f[t], fvar[t] = runs[t][0][t], runs[t][1][t, t]
+rt_sd = np.array([np.sqrt(max(fvar[t] + fvar[base] - 2 * runs[max(t, base)][1][t, base], 0)) for t in range(n)])
+checks.close("real time: filtered level", got_rt.filtered, f, rel=1e-8, abs_=1e-10, source="numpy dense GLS on the data up to t")
+checks.close("real time: filtered variance", got_rt.filteredvar, fvar, rel=1e-7, abs_=1e-14,
+             source="numpy dense GLS on the data up to t")
+checks.close("real time: index", got_rt["index"], 100 * np.exp(f - f[base]), rel=1e-8, source="numpy dense GLS")
+checks.close("real time: band", np.r_[got_rt.lower, got_rt.upper],
+             np.r_[100 * np.exp(f - f[base] - Z975 * rt_sd), 100 * np.exp(f - f[base] + Z975 * rt_sd)], rel=1e-7,
+             source="numpy dense GLS on the data up to max(t, base)")
 
 u = rng.uniform(-1, 1, n)
 Xs = np.column_stack([np.ones(n), u])
