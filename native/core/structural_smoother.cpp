@@ -254,8 +254,9 @@ struct Fit {
 Fit maximiseLikelihood(const Problem& pr, int maxEvaluations) {
     const unsigned p = static_cast<unsigned>(pr.slots.size());
     Objective ob{&pr, 0, -std::numeric_limits<double>::infinity(), {}};
-    // Grid: each standard deviation at a few multiples of sqrt(scale), all combinations.
-    const std::vector<double> levels = p <= 3 ? std::vector<double>{0.01, 0.1, 1}
+    // Grid: each standard deviation at a few multiples of sqrt(scale), all combinations (three
+    // levels up to four variances, two beyond).
+    const std::vector<double> levels = p <= 4 ? std::vector<double>{0.01, 0.1, 1}
                                               : std::vector<double>{0.03, 0.3};
     std::vector<double> x(p);
     std::vector<std::size_t> idx(p, 0);
@@ -281,7 +282,7 @@ Fit maximiseLikelihood(const Problem& pr, int maxEvaluations) {
     nlopt_set_upper_bounds(opt, ub.data());
     nlopt_set_max_objective(opt, nloptObjective, &ob);
     nlopt_set_xtol_abs1(opt, 1e-6);
-    nlopt_set_ftol_abs(opt, 1e-10);
+    nlopt_set_ftol_abs(opt, 1e-9);
     double previous = ob.best;
     for (int round = 0; round < 4; ++round) {
         x = ob.bestX;
@@ -301,7 +302,7 @@ Fit maximiseLikelihood(const Problem& pr, int maxEvaluations) {
             break;
         }
         if (res < 0 && res != NLOPT_ROUNDOFF_LIMITED) fit.converged = false;
-        if (round > 0 && ob.best - previous < 1e-9) break;
+        if (round > 0 && ob.best - previous < 1e-7) break;
         previous = ob.best;
     }
     // A standard deviation the optimiser left just above zero: take exactly zero when that
