@@ -165,8 +165,23 @@ void loadShared(const std::vector<const PeriodEffects*>& series, statespace::Obs
         off += w;
     }
     Eigen::LLT<MatrixXd> llt(obs.factorCov);
-    if (llt.info() != Eigen::Success)
-        throw InputError("the covariance of the shared sampling error is not positive definite");
+    if (llt.info() == Eigen::Success) return;
+    // Positive semi-definite (e.g. zero rows for terms the hedonic fit dropped): write
+    // X Sigma X' = (X U L^1/2)(X U L^1/2)' over the eigenvalues L above rounding, with an
+    // identity covariance for the remaining factors. A clearly negative eigenvalue is an error.
+    Eigen::SelfAdjointEigenSolver<MatrixXd> es(obs.factorCov);
+    const VectorXd& ev = es.eigenvalues();
+    const double top = std::max(ev.maxCoeff(), 0.0);
+    if (!(top > 0) || ev.minCoeff() < -1e-10 * top)
+        throw InputError("the covariance of the shared sampling error is not positive semi-definite");
+    std::vector<Index> keep;
+    for (Index i = 0; i < ev.size(); ++i)
+        if (ev(i) > 1e-12 * top) keep.push_back(i);
+    MatrixXd B(obs.factorCov.rows(), static_cast<Index>(keep.size()));
+    for (std::size_t j = 0; j < keep.size(); ++j)
+        B.col(static_cast<Index>(j)) = es.eigenvectors().col(keep[j]) * std::sqrt(ev(keep[j]));
+    obs.loadings = obs.loadings * B;
+    obs.factorCov = MatrixXd::Identity(B.cols(), B.cols());
 }
 
 void finishProblem(Problem& pr, const SmootherOptions& o) {

@@ -94,7 +94,7 @@ struct PeriodEffects {
     std::vector<double> variance;  // independent sampling variance of value (>= 0; 0 only
                                    // with irregular); ignored where value has none
     Eigen::MatrixXd loadings;      // empty, or periods x k
-    Eigen::MatrixXd sharedCov;     // k x k, positive definite
+    Eigen::MatrixXd sharedCov;     // k x k, positive semi-definite (zero rows allowed)
 };
 
 struct BorrowInput {

@@ -367,7 +367,7 @@ BOOST_AUTO_TEST_CASE(invalid_options_and_input_are_input_errors) {
     BOOST_CHECK_THROW(smoothPeriodEffects(PeriodEffects{}, SmootherOptions{}), InputError);
     bad = e;
     bad.loadings = Eigen::MatrixXd::Ones(30, 1);
-    bad.sharedCov = Eigen::MatrixXd::Constant(1, 1, -1e-4);  // not positive definite
+    bad.sharedCov = Eigen::MatrixXd::Constant(1, 1, -1e-4);  // not positive semi-definite
     BOOST_CHECK_THROW(smoothPeriodEffects(bad, SmootherOptions{}), InputError);
 
     BorrowInput b{e, e, std::vector<double>(30, 0.0)};
@@ -388,6 +388,34 @@ BOOST_AUTO_TEST_CASE(invalid_options_and_input_are_input_errors) {
     IndexOptions outside;
     outside.baseDate = serialFromCivil({2030, 1, 1});
     BOOST_CHECK_THROW(smoothedIndex(r, axis, std::vector<std::size_t>(30, 1), outside), InputError);
+}
+
+BOOST_AUTO_TEST_CASE(shared_error_with_a_dropped_term_equals_the_reduced_form) {
+    // A shared covariance with a zero row and column (a term the hedonic fit dropped) is the
+    // same model as the one without that term.
+    PeriodEffects reduced = simulated(40, 31);
+    reduced.loadings.resize(40, 2);
+    for (int t = 0; t < 40; ++t) {
+        reduced.loadings(t, 0) = 1;
+        reduced.loadings(t, 1) = std::sin(0.3 * t);
+    }
+    reduced.sharedCov.resize(2, 2);
+    reduced.sharedCov << 1e-4, 2e-5, 2e-5, 5e-5;
+    PeriodEffects padded = reduced;
+    padded.loadings.conservativeResize(40, 3);
+    padded.loadings.col(2).setConstant(0.7);
+    padded.sharedCov = Eigen::MatrixXd::Zero(3, 3);
+    padded.sharedCov.topLeftCorner(2, 2) = reduced.sharedCov;
+    SmootherOptions o;
+    o.variances = SmootherVariances{};
+    o.variances->level = 1.6e-5;
+    o.variances->slope = 1.6e-7;
+    const SmootherResult a = smoothPeriodEffects(reduced, o), b = smoothPeriodEffects(padded, o);
+    BOOST_TEST(close(a.logLikelihood, b.logLikelihood, 1e-9));
+    for (int t = 0; t < 40; ++t) {
+        BOOST_TEST(close(a.level[t], b.level[t], 1e-11));
+        BOOST_TEST(close(a.levelVariance[t], b.levelVariance[t], 1e-14));
+    }
 }
 
 BOOST_AUTO_TEST_CASE(summary_names_the_model_and_the_variances) {
