@@ -100,7 +100,8 @@ ObservedRows observedIn(const Observations& obs, int t) {
 
 }  // namespace
 
-// The forward pass shared by the likelihood-only path and the full run (store != nullptr).
+// The forward pass of the full run: the Kalman filter in the predicted form of D&K 4.3, storing
+// every period's quantities for the smoother and the real-time estimates.
 namespace {
 struct Forward {
     double logLik = 0;
@@ -110,6 +111,7 @@ struct Forward {
     bool collapsed = false;  // S and s already spent (fastForward): logLik is complete
 };
 
+// One recursion over the periods, kept in one piece so that it reads as D&K's equations.
 Forward forwardPass(const Model& M, const Observations& obs, std::vector<Run::Period>* store) {
     const int n = obs.periods(), m = M.states, k = obs.factors(), q = m, c = q + k;
     Forward f;
@@ -253,6 +255,7 @@ bool collapse(int m, int c, std::vector<double>& a, std::vector<double>& W, std:
     return true;
 }
 
+// One piece on purpose: the inner loop of maximum likelihood (a few hundred calls per fit).
 Forward fastForward(const Model& Mo, const Observations& obs) {
     const int n = obs.periods(), m = Mo.states, k = obs.factors(), q = m, c = q + k;
     const int p = obs.series();

@@ -359,22 +359,8 @@ std::string boundaryText(const std::string& name, const Layout& L) {
                        "the noise", name);
 }
 
-SmootherResult solve(const Problem& pr, const SmootherOptions& o) {
-    const int n = static_cast<int>(pr.obs.y.rows());
-    const std::size_t estimated = pr.slots.size();
-    if (!o.variances && pr.observations < pr.diffuse + static_cast<int>(estimated))
-        throw InputError(fmt::format(
-            "a {} needs at least {} period effects to estimate its variances; the data have {}",
-            modelText(pr.layout), pr.diffuse + static_cast<int>(estimated), pr.observations));
-
-    SmootherResult r;
-    r.periods = n;
-    r.model = modelText(pr.layout);
-    r.realtime = o.realtime;
-    r.diag.rowsIn = at(n);
-    for (Index t = 0; t < pr.obs.y.rows(); ++t)
-        if (std::isfinite(pr.obs.y(t, pr.layout.series - 1))) ++r.diag.rowsUsed;
-
+// The variances: given, or by maximum likelihood with the boundary warnings.
+void chooseVariances(const Problem& pr, const SmootherOptions& o, SmootherResult& r) {
     if (o.variances) {
         r.variances = *o.variances;
         r.estimated = false;
@@ -396,20 +382,10 @@ SmootherResult solve(const Problem& pr, const SmootherOptions& o) {
     SmootherVariances kept;
     for (const Slot& s : slotsFor(pr.layout, o.irregular)) kept.*(s.field) = r.variances.*(s.field);
     r.variances = kept;
+}
 
-    const statespace::Model M = buildModel(pr.layout, r.variances);
-    r.run = statespace::Run::run(M, pr.obs);
-    switch (r.run->failure()) {
-        case statespace::Failure::None: break;
-        case statespace::Failure::NotPositive:
-            throw InputError("the smoothing model cannot be computed: a measurement variance is "
-                             "zero (give sampling variances or estimate an irregular)");
-        case statespace::Failure::NotIdentified:
-            throw InputError(fmt::format("too few period effects for a {} ({} values, at least "
-                                         "{} needed)", r.model, pr.observations, pr.diffuse));
-    }
-    r.logLikelihood = r.run->logLikelihood();
-
+// Levels, components and the signal-to-noise ratio from the final run.
+void readRun(const Problem& pr, const statespace::Model& M, SmootherResult& r) {
     const int target = pr.layout.series - 1;
     r.signal = M.design.row(target).transpose();
     const statespace::Moments sm = r.run->smoothed(r.signal);
@@ -442,6 +418,38 @@ SmootherResult solve(const Problem& pr, const SmootherOptions& o) {
     if (hn > 0) r.noiseVariance = hsum / hn;
     const double signal = r.variances.level + (hasValue(r.variances.slope) ? r.variances.slope : 0.0);
     if (hasValue(r.noiseVariance) && r.noiseVariance > 0) r.signalToNoise = signal / r.noiseVariance;
+}
+
+SmootherResult solve(const Problem& pr, const SmootherOptions& o) {
+    const int n = static_cast<int>(pr.obs.y.rows());
+    const int needed = pr.diffuse + static_cast<int>(pr.slots.size());
+    if (!o.variances && pr.observations < needed)
+        throw InputError(fmt::format(
+            "a {} needs at least {} period effects to estimate its variances; the data have {}",
+            modelText(pr.layout), needed, pr.observations));
+
+    SmootherResult r;
+    r.periods = n;
+    r.model = modelText(pr.layout);
+    r.realtime = o.realtime;
+    r.diag.rowsIn = at(n);
+    for (Index t = 0; t < pr.obs.y.rows(); ++t)
+        if (std::isfinite(pr.obs.y(t, pr.layout.series - 1))) ++r.diag.rowsUsed;
+    chooseVariances(pr, o, r);
+
+    const statespace::Model M = buildModel(pr.layout, r.variances);
+    r.run = statespace::Run::run(M, pr.obs);
+    switch (r.run->failure()) {
+        case statespace::Failure::None: break;
+        case statespace::Failure::NotPositive:
+            throw InputError("the smoothing model cannot be computed: a measurement variance is "
+                             "zero (give sampling variances or estimate an irregular)");
+        case statespace::Failure::NotIdentified:
+            throw InputError(fmt::format("too few period effects for a {} ({} values, at least "
+                                         "{} needed)", r.model, pr.observations, pr.diffuse));
+    }
+    r.logLikelihood = r.run->logLikelihood();
+    readRun(pr, M, r);
     return r;
 }
 
