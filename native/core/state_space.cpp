@@ -100,9 +100,8 @@ ObservedRows observedIn(const Observations& obs, int t) {
 
 }  // namespace
 
-// The forward pass of the full run: the Kalman filter in the predicted form of D&K 4.3, storing
-// every period's quantities for the smoother and the real-time estimates.
 namespace {
+// What a forward pass returns: the log-likelihood terms and the information on gamma.
 struct Forward {
     double logLik = 0;
     MatrixXd S;
@@ -111,7 +110,9 @@ struct Forward {
     bool collapsed = false;  // S and s already spent (fastForward): logLik is complete
 };
 
-// One recursion over the periods, kept in one piece so that it reads as D&K's equations.
+// The forward pass of the full run: the Kalman filter in the predicted form of D&K 4.3, storing
+// every period's quantities for the smoother and the real-time estimates. One recursion over
+// the periods, kept in one piece so that it reads as D&K's equations.
 Forward forwardPass(const Model& M, const Observations& obs, std::vector<Run::Period>* store) {
     const int n = obs.periods(), m = M.states, k = obs.factors(), q = m, c = q + k;
     Forward f;
