@@ -4,7 +4,7 @@
 # the GUI office replaces the headless one). As root it runs apt-get; otherwise it uses sudo when present.
 set -euo pipefail
 
-build=(cmake make g++ pkg-config libeigen3-dev libfmt-dev libboost-dev libboost-test-dev libicu-dev
+build=(cmake make g++ pkg-config libeigen3-dev libfmt-dev libboost-dev libboost-test-dev libicu-dev libnlopt-dev
        "libreoffice-calc-nogui|libreoffice-calc" libreoffice-dev libreoffice-dev-common python3-uno)
 test=(python3-numpy python3-pandas python3-scipy python3-statsmodels r-base-core r-cran-aer locales
       libopenblas0-pthread)
