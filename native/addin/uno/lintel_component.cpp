@@ -16,6 +16,7 @@
 #include <com/sun/star/util/Date.hpp>
 #include <org/lintel/XLintel.hpp>
 
+#include "diagnostics.hpp"
 #include "function_table.hpp"
 #include "periods.hpp"
 #include "uno_cells.hpp"
@@ -108,10 +109,20 @@ private:
 
     static css::uno::Any dispatch(const char* method,
                                   const css::uno::Reference<css::beans::XPropertySet>& props,
-                                  std::vector<Arg> args) noexcept {
+                                  std::vector<UnoArg> given) noexcept {
         try {
             const FunctionSpec* f = findFunctionByMethod(method);
             if (!f) return failureAny("internal error: unknown function");
+            std::vector<Arg> args;
+            try {
+                args = readArguments(*f, std::move(given));
+            } catch (const lintel::InputError& e) {
+                return failureAny(std::string(e.what()));
+            } catch (const std::bad_alloc&) {
+                return failureAny("out of memory: the ranges are too large");
+            } catch (...) {
+                return failureAny("internal error while reading the arguments");
+            }
             return toAny(callFunction(*f, args, context(props)));
         } catch (...) {
             return failureAny("internal error while converting the result");
