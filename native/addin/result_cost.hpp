@@ -23,9 +23,10 @@ namespace lintel::addin {
 // Counting stops once the total passes stopAbove.
 double storeCost(const OutTable& t, double stopAbove);
 
-// Above this cost (about half a second here) the rows at the end of a result that hold no
-// value at all are left out: array cells below the last row with a value then show #N/A.
-inline constexpr double kTrimBlankTailCost = 3e9;
+// Above this cost (about a third of a second here: a blank tail of some 63,000 rows) the
+// rows at the end of a result that hold no value at all are left out: array cells below the
+// last row with a value then show #N/A.
+inline constexpr double kTrimBlankTailCost = 2e9;
 // Above this cost (about two seconds here), even without those rows, the result is replaced
 // by a message.
 inline constexpr double kMaxStoreCost = 1.2e10;
