@@ -136,6 +136,7 @@ COLUMN_CASES = [
     ("PERIODOF", "=PERIODOF({A})", SALES + 1, 1),
     ("INDEXMEDIAN", '=INDEXMEDIAN({A};{B};;;;"header=1")', PERIODS, 5),
     ("INDEXMEAN", '=INDEXMEAN({A};{B};;;;"header=1")', PERIODS, 5),
+    ("INDEXMEAN+include", '=INDEXMEAN({A};{B};{F}="district A";;;"header=1")', PERIODS, 5),
     ("INDEXMIX", '=INDEXMIX({A};{B};{F};;;;"header=1")', PERIODS, 5),
     ("INDEXHEDONIC", '=INDEXHEDONIC({A};{B};{DF};;;;"header=1; log=1")', PERIODS, 5),
     ("HEDONICCOEFS", '=HEDONICCOEFS({A};{B};{DF};;;;"header=1; log=1")', 80, 4),
