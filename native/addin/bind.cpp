@@ -192,11 +192,11 @@ OptionSpec notes() {
                   "reason, warnings.");
 }
 ArgSpec dates() {
-    return {"dates", ArgKind::Range,
+    return {"dates", ArgKind::Column,
             "Sale dates, one column (date cells or ISO text such as 2024-03-15)."};
 }
 ArgSpec prices() {
-    return {"prices", ArgKind::Range, "Sale prices, one column aligned with dates."};
+    return {"prices", ArgKind::Column, "Sale prices, one column aligned with dates."};
 }
 ArgSpec include() {
     return {"include", ArgKind::Optional,

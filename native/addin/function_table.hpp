@@ -28,6 +28,10 @@ class Call;
 enum class ArgKind {
     Range,     // required cell range (UNO sequence<sequence<any>>); a single value also works
     Optional,  // optional value or range (UNO any): may be omitted or left empty
+    Column,    // required column(s) of cells (UNO table::XCellRange): Calc passes the range
+               // itself and only its rows up to the last one holding data are read, so a whole
+               // column costs what its data costs. A value or an expression is refused by Calc
+               // (Err:504): use Range for arguments that may be a value.
 };
 
 // Writes the value of one argument or option into a field of a struct: the estimator's

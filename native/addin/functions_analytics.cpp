@@ -240,7 +240,7 @@ std::string positive(double x) { return x > 0 ? std::string() : std::string("mus
 }  // namespace
 
 std::vector<FunctionSpec> analyticsFunctions() {
-    const ArgSpec indexArg{"index", ArgKind::Range,
+    const ArgSpec indexArg{"index", ArgKind::Column,
                            "An index column: one value per period, periods in order; a blank or "
                            "text cell is a period without a value."};
     const OptionSpec header = spec::header(), titles = spec::titles(), notes = spec::notes();
@@ -255,7 +255,7 @@ std::vector<FunctionSpec> analyticsFunctions() {
         "reference period, averaged with fixed stratum weights, so a change in the mix of homes "
         "sold does not move the index. Base period = 100.",
         {spec::dates(), spec::prices(),
-         {"strata", ArgKind::Range,
+         {"strata", ArgKind::Column,
           "The strata of each sale, one column per stratifying variable (region, type, size band "
           "...); a stratum is each combination of their values. Rows aligned with dates; a blank "
           "cell drops the row."},
@@ -337,7 +337,7 @@ std::vector<FunctionSpec> analyticsFunctions() {
         "Hodrick-Prescott trend of an index (or any) series: the smooth path that balances "
         "closeness to the values against changes in its slope. Bridges gaps; no extrapolation "
         "beyond the first and last value.",
-        {{"index", ArgKind::Range,
+        {{"index", ArgKind::Column,
           "An index (or any) series, one column, one value per period; a blank or text cell is a "
           "period without a value."},
          spec::freq<HO>(" Sets the default lambda."),
@@ -383,8 +383,8 @@ std::vector<FunctionSpec> analyticsFunctions() {
         "Lead-lag of two indexes: the correlation of their changes (default year-over-year) at "
         "lags -maxlag .. maxlag. A positive lag k means a leads b by k periods: b's changes "
         "follow a's k periods later, corr(a(t), b(t+k)). Negative: b leads a.",
-        {{"a", ArgKind::Range, "The first index column (the one tested as leading for a positive lag)."},
-         {"b", ArgKind::Range, "The second index column, on the same periods (same rows) as a."},
+        {{"a", ArgKind::Column, "The first index column (the one tested as leading for a positive lag)."},
+         {"b", ArgKind::Column, "The second index column, on the same periods (same rows) as a."},
          param("maxlag", whole<LO>(&LO::maxLag, 0).withDefault("one year"),
                "Largest lead or lag tried, a whole number >= 0; default one year of periods (12 "
                "monthly, 4 quarterly, 2 yearly), at most the rows - 1."),
@@ -414,9 +414,9 @@ std::vector<FunctionSpec> analyticsFunctions() {
         "Dated peaks and troughs of an index, by the business-cycle dating rules (Bry & Boschan "
         "1971 monthly, Harding & Pagan 2002 quarterly): local extremes that alternate, with "
         "minimum phase and cycle lengths and none too close to the ends.",
-        {{"periods", ArgKind::Range,
+        {{"periods", ArgKind::Column,
           "Period start dates of the index, one column, as the index functions write them."},
-         {"index", ArgKind::Range, "The index values, one column aligned with periods."},
+         {"index", ArgKind::Column, "The index values, one column aligned with periods."},
          turnsFreq, spec::options()},
         {option("window", whole<TO>(&TO::window, 1).withDefault("5 M, 2 Q, 1 Y"),
                 "A turn is the highest (lowest) value within this many periods on each side."),
@@ -443,7 +443,7 @@ std::vector<FunctionSpec> analyticsFunctions() {
         "INDEXSEASONAL",
         "Seasonal factors of a monthly or quarterly index by the classical multiplicative "
         "decomposition (ratio to a centred moving average), and the seasonally adjusted index.",
-        {{"index", ArgKind::Range,
+        {{"index", ArgKind::Column,
           "A monthly or quarterly index column with at least 2 years of rows; a blank or text "
           "cell is a period without a value."},
          seasonalFreq, spec::options()},
@@ -470,7 +470,7 @@ std::vector<FunctionSpec> analyticsFunctions() {
         "Compares index columns on the same periods, one row each: volatility, signal-to-noise "
         "ratio, largest period change, lead-lag against the first column (positive lag = this "
         "column leads the first), and periods without a value.",
-        {{"indexes", ArgKind::Range,
+        {{"indexes", ArgKind::Column,
           "Index columns on the same periods; with header=1 the first row holds their names."},
          spec::freq<CO>(), spec::options()},
         {option("lag", whole<CO>(&CO::lag, 1), "Periods spanned by each change of the volatility."),

@@ -113,9 +113,9 @@ OutTable adjust(const Call& call) {
 }  // namespace
 
 std::vector<FunctionSpec> arithmeticFunctions() {
-    const ArgSpec periods{"periods", ArgKind::Range,
+    const ArgSpec periods{"periods", ArgKind::Column,
                           "The period column of an index table (period start dates)."};
-    const ArgSpec index{"index", ArgKind::Range, "The index column aligned with periods."};
+    const ArgSpec index{"index", ArgKind::Column, "The index column aligned with periods."};
     ArgSpec rebaseBase = param("base", date<RebaseOptions>(&RebaseOptions::baseDate),
                                "A date in the new base period.");
     rebaseBase.kind = ArgKind::Range;  // required
@@ -133,7 +133,7 @@ std::vector<FunctionSpec> arithmeticFunctions() {
         {"indexChange",
          "INDEXCHANGE",
          "Change of an index over lag rows: percent (default), log points or annualised.",
-         {{"index", ArgKind::Range, "An index column."},
+         {{"index", ArgKind::Column, "An index column."},
           param("lag", whole<ChangeOptions>(&ChangeOptions::lag, 1, 100000),
                 "Rows to look back (default 1; 12 on a monthly index, 4 on a quarterly one is "
                 "year-over-year)."),

@@ -142,7 +142,7 @@ OutTable refHomeValue(const Call& call) {
 
 // Arguments and options, each described once.
 ArgSpec characteristicsArg() {
-    return {"characteristics", ArgKind::Range,
+    return {"characteristics", ArgKind::Column,
             "Characteristics of each sold home, one column per characteristic (floor area, "
             "rooms, district ...), rows aligned with dates. Number columns enter as numbers, "
             "text columns as categories (one term per level except the most frequent)."};

@@ -55,7 +55,7 @@ std::vector<FunctionSpec> rawIndexFunctions() {
         "PERIODOF",
         "The start date of the month, quarter or year that contains a date. Works on one date "
         "or a whole column.",
-        {{"date", ArgKind::Range, "A date, or a range of dates."}, spec::freq<PeriodOfOptions>()},
+        {{"date", ArgKind::Column, "A cell holding a date, or a range of dates. Not a value: put DATE(...) or TODAY() in a cell."}, spec::freq<PeriodOfOptions>()},
         {},
         {{"period", "YYYY-MM-DD"}},
         "The period start date (format the cell as a date); a range gives a range of the same "

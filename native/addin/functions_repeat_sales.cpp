@@ -99,7 +99,7 @@ OutTable rsPairs(const Call& call) {
 
 // Arguments and options, each described once.
 ArgSpec idsArg() {
-    return {"ids", ArgKind::Range,
+    return {"ids", ArgKind::Column,
             "Property id of each sale, one column aligned with dates (text or numbers). Sales "
             "with the same id are the same property; blanks around an id are ignored, case "
             "matters, the number 123 and the text \"123\" are one id. A blank id drops the "

@@ -1,21 +1,37 @@
-"""Speed of INDEXHEDONIC in a real headless Calc (a measurement, not a test).
+"""Speed of Lintel in a real headless Calc (measurements, not tests).
 
-    /usr/bin/python3 tests/bench/bench_calc.py --oxt build/lintel.oxt
+    /usr/bin/python3 tests/bench/bench_calc.py --oxt build/lintel.oxt [--only SECTION ...]
 
-Starts the office with scripts/lintel_office.py, writes generated sales to a sheet, sets one
-INDEXHEDONIC array formula and prints the median time of `--runs` full recalculations
-(doc.calculateAll(), which includes handing the ranges to the add-in and the result back).
-Target: under 0.5 s for 35,000 sales with about 12 characteristic terms.
+Starts the office with scripts/lintel_office.py, writes generated data to sheets, sets array
+formulas and prints the median time of `--runs` full recalculations (doc.calculateAll(),
+which includes handing the ranges to the add-in and the result back). Sections:
 
-Generated market (not the demo): `--rows` sales spread evenly over `--months` months from
-2019-01 (day 1 + i mod 28); per sale, from numpy's default_rng(`--seed`):
-  size ~ U(40, 240) m^2 (taken in logs), rooms ~ U{1..5}, bathrooms ~ U{1..3},
-  age ~ U{0..99}, lot ~ U(100, 1000) m^2, garage ~ Bernoulli(0.4),
-  district ~ U{"district A" .. "district G"} (text: 6 dummy terms);
-  ln price = 11 + 0.003 t + 0.7 ln size + 0.04 rooms + 0.06 bathrooms - 0.003 age
-             + 0.00001 lot + 0.05 garage + c_district + N(0, 0.2^2),
-  c = (0, 0.1, -0.1, 0.2, 0.05, -0.15, 0.3).
-Terms: log(size), rooms, bathrooms, age, lot, garage and 6 district dummies = 12.
+hedonic   INDEXHEDONIC over `--rows` sales (default 35,000) with 12 characteristic terms.
+          Target: under 0.5 s.
+columns   Every function over whole columns (A:A) and over the same rows given as ranges
+          (A1:A1001), with 1,000 sales and a 60-month index table. Target: whole columns within
+          0.2 s. Also says whether both forms gave the same cells.
+blank     PERIODOF over a range of n rows of which the first 1,000 hold dates and the rest are
+          blank, into an array of n rows: the cost of blank result cells, and what the first
+          row below the data shows (blank, or #N/A where a long blank tail was left out).
+full      The worst case: functions over whole columns of a full sheet (1,048,575 sales).
+          Target: a few seconds.
+
+Generated data (not the demo; numpy's default_rng, seeds below):
+  hedonic (seed `--seed`): `--rows` sales spread evenly over `--months` months from 2019-01
+    (day 1 + i mod 28); size ~ U(40, 240) m^2 (in logs), rooms ~ U{1..5}, bathrooms ~ U{1..3},
+    age ~ U{0..99}, lot ~ U(100, 1000) m^2, garage ~ Bernoulli(0.4), district ~ U{"district A"
+    .. "district G"}; ln price = 11 + 0.003 t + 0.7 ln size + 0.04 rooms + 0.06 bathrooms
+    - 0.003 age + 0.00001 lot + 0.05 garage + c_district + N(0, 0.2^2),
+    c = (0, 0.1, -0.1, 0.2, 0.05, -0.15, 0.3).
+  columns (seed 1000): 1,000 sales over 60 months from 2019-01 (month i*60//1000, day
+    1 + i mod 28); id "P<k>", k ~ U{0..399}; size ~ U(40, 200); rooms ~ U{1..5}; district ~
+    U{"district A" .. "district E"}; ln price = 12 + 0.004 t + 0.6 ln(size/100) + 0.03 rooms
+    + (0, 0.1, -0.1, 0.2, -0.05)[district] + N(0, 0.15^2). Index table, months t = 0..59:
+    A = 100 exp(0.004 t + 0.02 sin(2 pi t/12) + N(0, 0.005^2)), B the same shape 3 months
+    later.
+  full (seed 5): 1,048,575 sales over 120 months from 2020-01; id ~ U{0..299999} (numbers);
+    size ~ U(40, 240); ln price = 12 + 0.003 t + N(0, 0.2^2).
 """
 import argparse
 import os
@@ -28,16 +44,48 @@ import numpy as np
 sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "..", "scripts"))
 from lintel_office import Office, sheet_values  # noqa: E402
 
+SHEET_ROWS = 1048576
 
-def market(rows, months, seed):
+
+def serial_of(year, month, day):
+    """Date serial (day 0 = 1899-12-30) without pandas."""
+    return float((np.datetime64(f"{year:04d}-{month:02d}-01") - np.datetime64("1899-12-30")).astype(int) + day - 1)
+
+
+def recalc_times(doc, runs):
+    times = []
+    for _ in range(runs):
+        t0 = time.perf_counter()
+        doc.calculateAll()
+        times.append(time.perf_counter() - t0)
+    return times
+
+
+def timed_array(doc, sheet, ref, formula, runs):
+    """Sets an array formula, recalculates once, returns (median of runs, cells)."""
+    rng = sheet.getCellRangeByName(ref)
+    rng.setArrayFormula(formula)
+    doc.calculateAll()
+    times = recalc_times(doc, runs)
+    cells = sheet_values(sheet, ref)
+    rng.setArrayFormula("")
+    return statistics.median(times), cells
+
+
+def cell_text(v):
+    if v is None or v == "":
+        return "blank"
+    if isinstance(v, tuple):
+        return {32767: "#N/A", 504: "Err:504"}.get(v[1], f"error {v[1]}")
+    return repr(v)
+
+
+# --- hedonic ----------------------------------------------------------------------------------
+def hedonic_market(rows, months, seed):
     rng = np.random.default_rng(seed)
     i = np.arange(rows)
     t = i * months // rows
-    year, month = 2019 + t // 12, t % 12 + 1
-    day = 1 + i % 28
-    # Date serials (day 0 = 1899-12-30) without pandas: days from 1899-12-30 to year-month-day.
-    serial = (np.array([np.datetime64(f"{y:04d}-{m:02d}-01") for y, m in zip(year, month)])
-              - np.datetime64("1899-12-30")).astype(float) + day - 1
+    serial = np.array([serial_of(2019 + k // 12, k % 12 + 1, 1) for k in t]) + i % 28
     size = rng.uniform(40, 240, rows)
     rooms = rng.integers(1, 6, rows).astype(float)
     bath = rng.integers(1, 4, rows).astype(float)
@@ -50,52 +98,208 @@ def market(rows, months, seed):
            + 0.00001 * lot + 0.05 * garage + c[d] + rng.normal(0, 0.2, rows))
     district = [f"district {chr(65 + k)}" for k in d]
     header = ("date", "price", "size", "rooms", "bathrooms", "age", "lot", "garage", "district")
-    data = [header] + [
+    return [header] + [
         (float(serial[k]), float(np.exp(lnp[k])), float(size[k]), float(rooms[k]), float(bath[k]),
          float(age[k]), float(lot[k]), float(garage[k]), district[k]) for k in range(rows)]
-    return data
+
+
+def bench_hedonic(office, a):
+    data = hedonic_market(a.rows, a.months, a.seed)
+    n = len(data)
+    doc = office.new_calc()
+    sheet = doc.Sheets.getByIndex(0)
+    sheet.getCellRangeByName(f"A1:I{n}").setDataArray(data)
+    out = f"K1:O{a.months}"
+    formula = f'=INDEXHEDONIC(A1:A{n};B1:B{n};C1:I{n};;;;"header=1; log=1")'
+    sheet.getCellRangeByName(out).setArrayFormula(formula)
+    doc.calculateAll()
+    cells = sheet_values(sheet, out)
+    if not isinstance(cells[0][1], float):
+        raise SystemExit(f"the formula did not give an index: {cells[0][:2]!r}")
+    times = recalc_times(doc, a.runs)
+    if sheet_values(sheet, out) != cells:
+        raise SystemExit("the recalculated table differs from the first one")
+    doc.close(True)
+    med = statistics.median(times)
+    print(f"INDEXHEDONIC: {a.rows} sales, {a.months} months, 12 characteristic terms; "
+          f"recalculation over {a.runs} runs: median {med:.3f} s "
+          f"(runs: {', '.join(f'{x:.3f}' for x in times)}); target < 0.5 s: "
+          f"{'met' if med < 0.5 else 'NOT met'}", flush=True)
+
+
+# --- columns ----------------------------------------------------------------------------------
+SALES = 1000
+PERIODS = 60
+
+# name, formula with {A}..{J} (one column) and {DF}, {IJ} (blocks), output rows x columns
+COLUMN_CASES = [
+    ("PERIODOF", "=PERIODOF({A})", SALES + 1, 1),
+    ("INDEXMEDIAN", '=INDEXMEDIAN({A};{B};;;;"header=1")', PERIODS, 5),
+    ("INDEXMEAN", '=INDEXMEAN({A};{B};;;;"header=1")', PERIODS, 5),
+    ("INDEXMEAN+include", '=INDEXMEAN({A};{B};{F}="district A";;;"header=1")', PERIODS, 5),
+    ("INDEXMIX", '=INDEXMIX({A};{B};{F};;;;"header=1")', PERIODS, 5),
+    ("INDEXHEDONIC", '=INDEXHEDONIC({A};{B};{DF};;;;"header=1; log=1")', PERIODS, 5),
+    ("HEDONICCOEFS", '=HEDONICCOEFS({A};{B};{DF};;;;"header=1; log=1")', 80, 4),
+    ("REFHOMEVALUE", '=REFHOMEVALUE({A};{B};{DF};;;;;"header=1; log=1")', PERIODS, 4),
+    ("CHAINRS", '=CHAINRS({C};{A};{B};;;;;"header=1")', PERIODS, 5),
+    ("RSPAIRS", '=RSPAIRS({C};{A};{B};;;"header=1")', 700, 10),
+    ("INDEXREBASE", "=INDEXREBASE({H};{I};DATE(2020;1;1))", PERIODS + 1, 1),
+    ("INDEXCHANGE", "=INDEXCHANGE({I};12)", PERIODS + 1, 1),
+    ("PRICEADJUST", "=PRICEADJUST({B};{A};DATE(2023;12;31);{H};{I})", SALES + 1, 1),
+    ("INDEXVOLATILITY", '=INDEXVOLATILITY({I};1;"header=1")', 1, 1),
+    ("INDEXTREND", "=INDEXTREND({I})", PERIODS + 1, 1),
+    ("INDEXSNR", '=INDEXSNR({I};;"header=1")', 1, 1),
+    ("INDEXLEADLAG", '=INDEXLEADLAG({I};{J};;"header=1")', 26, 3),
+    ("INDEXTURNS", '=INDEXTURNS({H};{I};;"header=1")', 10, 4),
+    ("INDEXSEASONAL", '=INDEXSEASONAL({I};"M";"header=1")', PERIODS + 1, 1),
+    ("INDEXCOMPARE", '=INDEXCOMPARE({IJ};"M";"header=1")', 3, 7),
+]
+
+
+def column_sheet_data():
+    rng = np.random.default_rng(1000)
+    i = np.arange(SALES)
+    t = i * PERIODS // SALES
+    serial = np.array([serial_of(2019 + k // 12, k % 12 + 1, 1) for k in t]) + i % 28
+    ids = [f"P{k}" for k in rng.integers(0, 400, SALES)]
+    size = rng.uniform(40, 200, SALES)
+    rooms = rng.integers(1, 6, SALES).astype(float)
+    d = rng.integers(0, 5, SALES)
+    lnp = (12 + 0.004 * t + 0.6 * np.log(size / 100) + 0.03 * rooms
+           + np.array([0, 0.1, -0.1, 0.2, -0.05])[d] + rng.normal(0, 0.15, SALES))
+    sales = [("date", "price", "id", "size", "rooms", "district")] + [
+        (float(serial[k]), float(np.exp(lnp[k])), ids[k], float(size[k]), float(rooms[k]),
+         f"district {chr(65 + d[k])}") for k in range(SALES)]
+    m = np.arange(PERIODS)
+    index_a = 100 * np.exp(0.004 * m + 0.02 * np.sin(2 * np.pi * m / 12) + rng.normal(0, 0.005, PERIODS))
+    index_b = 100 * np.exp(0.004 * (m - 3) + 0.02 * np.sin(2 * np.pi * (m - 3) / 12)
+                           + rng.normal(0, 0.005, PERIODS))
+    table = [("period", "index A", "index B")] + [
+        (serial_of(2019 + k // 12, k % 12 + 1, 1), float(index_a[k]), float(index_b[k])) for k in m]
+    return sales, table
+
+
+def column_refs(whole):
+    refs = {}
+    for c in "ABCDEF":
+        refs[c] = f"$Sales.{c}:{c}" if whole else f"$Sales.{c}1:{c}{SALES + 1}"
+    for c in "HIJ":
+        refs[c] = f"$Sales.{c}:{c}" if whole else f"$Sales.{c}1:{c}{PERIODS + 1}"
+    refs["DF"] = "$Sales.D:F" if whole else f"$Sales.D1:F{SALES + 1}"
+    refs["IJ"] = "$Sales.I:J" if whole else f"$Sales.I1:J{PERIODS + 1}"
+    return refs
+
+
+def bench_columns(office, a):
+    sales, table = column_sheet_data()
+    doc = office.new_calc()
+    doc.Sheets.getByIndex(0).Name = "Sales"
+    s = doc.Sheets.getByName("Sales")
+    s.getCellRangeByName(f"A1:F{SALES + 1}").setDataArray(sales)
+    s.getCellRangeByName(f"H1:J{PERIODS + 1}").setDataArray(table)
+    doc.Sheets.insertNewByName("Out", 1)
+    out = doc.Sheets.getByName("Out")
+    wanted = set(a.functions.split(",")) if a.functions else None
+    print(f"Every function with {SALES} sales and a {PERIODS}-month index table: whole columns "
+          f"(A:A) vs the same rows as ranges (A1:A{SALES + 1}); median of {a.runs} recalculations",
+          flush=True)
+    worst = 0.0
+    for name, formula, rows, cols in COLUMN_CASES:
+        if wanted and name not in wanted:
+            continue
+        ref = f"A1:{chr(64 + cols)}{rows}"
+        t_range, cells_range = timed_array(doc, out, ref, formula.format(**column_refs(False)), a.runs)
+        t_whole, cells_whole = timed_array(doc, out, ref, formula.format(**column_refs(True)), a.runs)
+        worst = max(worst, t_whole)
+        print(f"  {name:16s} whole columns {t_whole:8.3f} s   ranges {t_range:8.3f} s   "
+              f"same cells: {'yes' if cells_whole == cells_range else 'NO'}", flush=True)
+    doc.close(True)
+    print(f"  slowest over whole columns: {worst:.3f} s; target 0.2 s: {'met' if worst <= 0.2 else 'NOT met'}",
+          flush=True)
+
+
+# --- blank ------------------------------------------------------------------------------------
+def bench_blank(office, a):
+    doc = office.new_calc()
+    s = doc.Sheets.getByIndex(0)
+    s.getCellRangeByName("A1:A1000").setDataArray([(43831.0 + k,) for k in range(1000)])
+    doc.Sheets.insertNewByName("Out", 1)
+    out = doc.Sheets.getByName("Out")
+    print("PERIODOF over n rows (1,000 dates, then blank cells) into an array of n rows; median of "
+          f"{a.runs} recalculations", flush=True)
+    for n in [int(x) for x in a.blank_rows.split(",")]:
+        rng = out.getCellRangeByName(f"A1:A{n}")
+        rng.setArrayFormula(f"=PERIODOF($Sheet1.A1:A{n})")
+        doc.calculateAll()
+        times = recalc_times(doc, a.runs)
+        below = sheet_values(out, "A1001:A1001")[0][0]
+        rng.setArrayFormula("")
+        print(f"  n = {n:9d}: {statistics.median(times):8.3f} s; row 1001 (first below the data) "
+              f"shows {cell_text(below)}", flush=True)
+    doc.close(True)
+
+
+# --- full -------------------------------------------------------------------------------------
+FULL_CASES = [
+    ("INDEXMEDIAN", "=INDEXMEDIAN($Sales.A:A;$Sales.B:B)", "A1:E130"),
+    ("INDEXMEAN", "=INDEXMEAN($Sales.A:A;$Sales.B:B)", "A1:E130"),
+    ("INDEXHEDONIC", '=INDEXHEDONIC($Sales.A:A;$Sales.B:B;$Sales.D:D;;;;"log=1")', "A1:E130"),
+    ("CHAINRS", "=CHAINRS($Sales.C:C;$Sales.A:A;$Sales.B:B)", "A1:E130"),
+    ("PERIODOF (one cell)", "=PERIODOF($Sales.A:A)", "A1:A1"),
+]
+
+
+def bench_full(office, a):
+    n = SHEET_ROWS - 1
+    rng = np.random.default_rng(5)
+    t = np.arange(n) * 120 // n
+    first = np.array([serial_of(2020 + k // 12, k % 12 + 1, 1) for k in range(120)])
+    serial = first[t] + np.arange(n) % 28
+    price = np.exp(12 + 0.003 * t + rng.normal(0, 0.2, n))
+    ids = rng.integers(0, 300000, n).astype(float)
+    size = rng.uniform(40, 240, n)
+    doc = office.new_calc()
+    doc.Sheets.getByIndex(0).Name = "Sales"
+    s = doc.Sheets.getByName("Sales")
+    t0 = time.perf_counter()
+    step = 200000
+    for lo in range(0, n, step):
+        hi = min(n, lo + step)
+        s.getCellRangeByName(f"A{lo + 2}:D{hi + 1}").setDataArray(
+            tuple((float(serial[k]), float(price[k]), float(ids[k]), float(size[k])) for k in range(lo, hi)))
+    doc.Sheets.insertNewByName("Out", 1)
+    out = doc.Sheets.getByName("Out")
+    print(f"Full sheet: {n} sales in A:D (filled in {time.perf_counter() - t0:.1f} s); median of "
+          f"{a.full_runs} recalculations", flush=True)
+    worst = 0.0
+    for name, formula, ref in FULL_CASES:
+        med, cells = timed_array(doc, out, ref, formula, a.full_runs)
+        worst = max(worst, med)
+        print(f"  {name:20s} {med:8.3f} s   first cell {cell_text(cells[0][0])}", flush=True)
+    doc.close(True)
+    print(f"  worst case over {SHEET_ROWS} rows: {worst:.3f} s", flush=True)
 
 
 def main():
     p = argparse.ArgumentParser(description=__doc__.split("\n")[0])
     p.add_argument("--oxt", required=True, help="path to lintel.oxt")
+    p.add_argument("--only", nargs="*", default=["hedonic", "columns", "blank", "full"],
+                   help="sections to run (default: all)")
+    p.add_argument("--runs", type=int, default=5)
+    p.add_argument("--full-runs", type=int, default=3)
     p.add_argument("--rows", type=int, default=35000)
     p.add_argument("--months", type=int, default=60)
-    p.add_argument("--runs", type=int, default=5)
     p.add_argument("--seed", type=int, default=35000)
-    p.add_argument("--options", default="header=1; log=1",
-                   help="the options text of the formula (default: %(default)s)")
+    p.add_argument("--functions", default="", help="columns: only these functions (comma list)")
+    p.add_argument("--blank-rows", default="65536,131072,262144,1048576",
+                   help="blank: the array heights n (comma list)")
     a = p.parse_args()
-
-    data = market(a.rows, a.months, a.seed)
-    n = len(data)
     with Office(os.path.abspath(a.oxt)) as office:
-        doc = office.new_calc()
-        sheet = doc.Sheets.getByIndex(0)
-        sheet.getCellRangeByName(f"A1:I{n}").setDataArray(data)
-        out = f"K1:O{a.months}"
-        formula = f'=INDEXHEDONIC(A1:A{n};B1:B{n};C1:I{n};;;;"{a.options}")'
-        sheet.getCellRangeByName(out).setArrayFormula(formula)
-        doc.calculateAll()
-        cells = sheet_values(sheet, out)
-        if not isinstance(cells[0][1], float):
-            raise SystemExit(f"the formula did not give an index: {cells[0][:2]!r}")
-        times = []
-        for _ in range(a.runs):
-            t0 = time.perf_counter()
-            doc.calculateAll()
-            times.append(time.perf_counter() - t0)
-        check = sheet_values(sheet, out)
-        if check != cells:
-            raise SystemExit("the recalculated table differs from the first one")
-        doc.close(True)
+        for section in a.only:
+            {"hedonic": bench_hedonic, "columns": bench_columns, "blank": bench_blank,
+             "full": bench_full}[section](office, a)
         alive = office.alive()
-    med = statistics.median(times)
-    print(f"INDEXHEDONIC in Calc: {a.rows} sales, {a.months} months, 12 characteristic terms "
-          f"({a.options}); recalculation (calculateAll) over {a.runs} runs: "
-          f"median {med:.3f} s (runs: {', '.join(f'{x:.3f}' for x in times)}); "
-          f"target < 0.5 s: {'met' if med < 0.5 else 'NOT met'}; "
-          f"last index {cells[-1][1]:.2f}; office alive: {alive}")
+    print(f"office alive: {alive}")
 
 
 if __name__ == "__main__":

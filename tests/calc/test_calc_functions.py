@@ -151,9 +151,14 @@ class CalcTest(SheetCalls, unittest.TestCase):
         self.assertTrue(col[2][0].startswith("Lintel: saledate 2024-01-09 lies outside the index"), col[2][0])
 
     def test_periodof(self):
-        self.assertEqual(self.formula("L110", "=PERIODOF(DATE(2024;2;29))"), 45323.0)  # 2024-02-01
-        self.assertEqual(self.formula("L111", '=PERIODOF(DATE(2024;2;29);"Q")'), 45292.0)  # 2024-01-01
-        self.assertEqual(self.formula("L112", '=PERIODOF("2023-11-30";"Y")'), 44927.0)  # 2023-01-01
+        # date is a cells argument: a cell holding a date, or a range.
+        self.sheet.getCellRangeByName("K110").setFormula("=DATE(2024;2;29)")
+        self.sheet.getCellRangeByName("K112").setString("2023-11-30")
+        self.assertEqual(self.formula("L110", "=PERIODOF(K110)"), 45323.0)  # 2024-02-01
+        self.assertEqual(self.formula("L111", '=PERIODOF(K110;"Q")'), 45292.0)  # 2024-01-01
+        self.assertEqual(self.formula("L112", '=PERIODOF(K112;"Y")'), 44927.0)  # 2023-01-01
+        # A value instead of a cell is refused by Calc before the call (docs/errors.md).
+        self.assertEqual(self.formula("L113", "=PERIODOF(DATE(2024;2;29))"), ("error", 504))
         self.sheet.getCellRangeByName("M110:M112").setDataArray(((45351.0,), ("",), ("soon",)))
         col = self.array("N110:N112", "=PERIODOF(M110:M112)")
         self.assertEqual(col, [[45323.0], [""], ["Lintel: not a date"]])
@@ -243,7 +248,11 @@ class BadInputTest(SheetCalls, unittest.TestCase):
         self.sheet.getCellRangeByName("S1").setFormula("=1/0")
         self.sheet.getCellRangeByName("S2:S3").setDataArray(((5.0,), (6.0,)))
         cells = self.array("U1:Y2", "=INDEXMEDIAN(A1:A3;S1:S3)")
-        self.assertEqual(cells[0][0][0], "error")  # Calc passes the error on before the call
+        # prices is a cells argument: Lintel reads the range and names the error cell.
+        self.assertEqual(cells[0][0], "Lintel: prices holds #DIV/0! in cell Sheet1.S1: correct or clear that cell")
+        # include is not: Calc passes the error on before the call (Err:504).
+        cells = self.array("U4:Y5", "=INDEXMEDIAN(A1:A3;B1:B3;S1:S3)")
+        self.assertEqual(cells[0][0], ("error", 504))
         self.assertTrue(office.alive())
 
     def test_one_row_and_one_period(self):
@@ -291,7 +300,8 @@ class NullDateTest(SheetCalls, unittest.TestCase):
             d.Day, d.Month, d.Year = 1, 1, 1904
             doc.NullDate = d
             sheet = doc.Sheets.getByIndex(0)
-            sheet.getCellRangeByName("A1").setFormula("=PERIODOF(45)")  # 1904-02-15
+            sheet.getCellRangeByName("B1").setValue(45.0)  # 1904-02-15
+            sheet.getCellRangeByName("A1").setFormula("=PERIODOF(B1)")
             doc.calculateAll()
             self.assertEqual(sheet.getCellRangeByName("A1").getValue(), 31.0)  # 1904-02-01
         finally:

@@ -88,10 +88,10 @@ BOOST_AUTO_TEST_CASE(argument_lists_and_sign_convention_in_the_wizard) {
             std::vector<std::string> got;
             for (const auto& a : f->args) got.push_back(a.name);
             BOOST_TEST(got == args, boost::test_tools::per_element());
-            // The first arguments are required ranges, the rest optional.
+            // The first arguments are required cell ranges, the rest optional.
             const std::size_t required = name == "INDEXMIX" ? 3 : (name == "INDEXLEADLAG" || name == "INDEXTURNS") ? 2 : 1;
             for (std::size_t i = 0; i < f->args.size(); ++i)
-                BOOST_TEST((f->args[i].kind == (i < required ? ArgKind::Range : ArgKind::Optional)));
+                BOOST_TEST((f->args[i].kind == (i < required ? ArgKind::Column : ArgKind::Optional)));
         }
     }
     const FunctionSpec* ll = findFunctionByName("INDEXLEADLAG");

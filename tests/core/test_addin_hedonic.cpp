@@ -158,7 +158,7 @@ BOOST_AUTO_TEST_CASE(table_entries_have_the_fixed_names_and_argument_orders) {
     const FunctionSpec& r = *findFunctionByName("REFHOMEVALUE");
     BOOST_TEST((r.args[3].kind == ArgKind::Optional));  // can be left empty
     BOOST_TEST(r.args[3].description.find("base period's median home") != std::string::npos);
-    BOOST_TEST((r.args[2].kind == ArgKind::Range));
+    BOOST_TEST((r.args[2].kind == ArgKind::Column));
     BOOST_TEST(findFunctionByMethod("indexHedonic")->name == "INDEXHEDONIC");
     BOOST_TEST(findFunctionByMethod("hedonicCoefs")->name == "HEDONICCOEFS");
     BOOST_TEST(findFunctionByMethod("refHomeValue")->name == "REFHOMEVALUE");

@@ -139,7 +139,7 @@ BOOST_AUTO_TEST_CASE(table_entries_have_the_fixed_names_and_argument_orders) {
         BOOST_TEST(f.example.rfind(std::string("=") + fn + "(", 0) == 0u);
         for (std::size_t i = 0; i < f.args.size(); ++i) {
             BOOST_TEST(f.args[i].description.size() > 20u, fn << " " << f.args[i].name);
-            BOOST_TEST((f.args[i].kind == (i < 3 ? ArgKind::Range : ArgKind::Optional)));
+            BOOST_TEST((f.args[i].kind == (i < 3 ? ArgKind::Column : ArgKind::Optional)));
         }
         for (const auto& o : f.options) BOOST_TEST(o.description.size() > 20u, fn << " " << o.key);
     }

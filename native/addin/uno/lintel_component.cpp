@@ -16,6 +16,7 @@
 #include <com/sun/star/util/Date.hpp>
 #include <org/lintel/XLintel.hpp>
 
+#include "diagnostics.hpp"
 #include "function_table.hpp"
 #include "periods.hpp"
 #include "uno_cells.hpp"
@@ -107,8 +108,9 @@ private:
     }
 
     // Reading the arguments, running the function and writing the result each fail in their
-    // own words: out of memory is said as such (never "dates is required"), anything else is
-    // an internal fault, never dressed as an input error.
+    // own words: an error cell in a cells argument is named, out of memory is said as such
+    // (never "dates is required"), anything else is an internal fault, never dressed as an
+    // input error.
     template <class ReadArgs>
     static css::uno::Any dispatch(const char* method,
                                   const css::uno::Reference<css::beans::XPropertySet>& props,
@@ -117,15 +119,17 @@ private:
         if (!f) return failureAny("internal fault: unknown function (a bug in Lintel; please report it)");
         std::vector<Arg> args;
         try {
-            args = readArgs();
+            args = readArguments(*f, readArgs());
+        } catch (const lintel::InputError& e) {
+            return failureAny(std::string(e.what()));
         } catch (const std::bad_alloc&) {
             return failureAny("out of memory while reading the ranges: use smaller ranges");
         } catch (...) {
             return failureAny("internal fault while reading the arguments (a bug in Lintel; please report it)");
         }
-        const OutTable result = callFunction(*f, args, context(props));  // never throws
+        OutTable result = callFunction(*f, args, context(props));  // never throws
         try {
-            return toAny(result);
+            return toAny(std::move(result));
         } catch (const std::bad_alloc&) {
             return failureAny("out of memory while writing the result: select a smaller range");
         } catch (...) {

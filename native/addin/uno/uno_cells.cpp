@@ -1,8 +1,25 @@
 #include "uno_cells.hpp"
 
 #include <algorithm>
+#include <optional>
 
+#include <com/sun/star/container/XNamed.hpp>
+#include <com/sun/star/sheet/CellFlags.hpp>
+#include <com/sun/star/sheet/XCellRangeAddressable.hpp>
+#include <com/sun/star/sheet/XCellRangeData.hpp>
+#include <com/sun/star/sheet/XCellRangesQuery.hpp>
+#include <com/sun/star/sheet/XSheetCellRange.hpp>
+#include <com/sun/star/sheet/XSheetCellRanges.hpp>
+#include <com/sun/star/sheet/XSpreadsheet.hpp>
+#include <com/sun/star/table/XCell.hpp>
+#include <com/sun/star/table/XColumnRowRange.hpp>
+#include <com/sun/star/table/XTableRows.hpp>
+#include <fmt/format.h>
 #include <rtl/string.hxx>
+
+#include "column_rows.hpp"
+#include "diagnostics.hpp"
+#include "result_cost.hpp"
 
 namespace css = com::sun::star;
 
@@ -62,6 +79,99 @@ css::uno::Any toUno(const OutCell& c) {
     return css::uno::Any(OUString());
 }
 
+// A Column argument as Calc passed it, measured before it is read.
+struct ColumnSource {
+    css::uno::Reference<css::table::XCellRange> range;
+    css::table::CellRangeAddress address;
+    ColumnExtent extent;
+};
+
+ColumnSource measure(const css::uno::Reference<css::table::XCellRange>& range) {
+    ColumnSource s;
+    s.range = range;
+    s.address = css::uno::Reference<css::sheet::XCellRangeAddressable>(range, css::uno::UNO_QUERY_THROW)
+                    ->getRangeAddress();
+    const auto& a = s.address;
+    s.extent.rows = static_cast<std::size_t>(a.EndRow - a.StartRow + 1);
+    s.extent.cols = static_cast<std::size_t>(a.EndColumn - a.StartColumn + 1);
+    const css::uno::Reference<css::sheet::XSheetCellRange> onSheet(range, css::uno::UNO_QUERY);
+    if (onSheet.is()) {
+        const css::uno::Reference<css::table::XColumnRowRange> sheet(onSheet->getSpreadsheet(),
+                                                                    css::uno::UNO_QUERY);
+        if (sheet.is()) s.extent.toSheetEnd = a.EndRow + 1 == sheet->getRows()->getCount();
+    }
+    // The cells holding anything (values, text, formulas), found by Calc from its own cell
+    // storage: empty stretches of a column cost nothing.
+    namespace flags = css::sheet::CellFlags;
+    const auto found = css::uno::Reference<css::sheet::XCellRangesQuery>(range, css::uno::UNO_QUERY_THROW)
+                           ->queryContentCells(static_cast<sal_Int16>(flags::VALUE | flags::DATETIME |
+                                                                      flags::STRING | flags::FORMULA));
+    if (found.is())
+        for (const auto& part : found->getRangeAddresses())
+            s.extent.usedRows = std::max(s.extent.usedRows,
+                                         static_cast<std::size_t>(part.EndRow - a.StartRow + 1));
+    s.extent.usedRows = std::min(s.extent.usedRows, s.extent.rows);
+    return s;
+}
+
+std::string columnLetters(sal_Int32 col) {
+    std::string s;
+    for (++col; col > 0; col = (col - 1) / 26) s.insert(s.begin(), static_cast<char>('A' + (col - 1) % 26));
+    return s;
+}
+
+// Calc's error codes (FormulaError) as the cell shows them.
+std::string errorText(sal_Int32 code) {
+    switch (code) {
+        case 503: return "#NUM!";
+        case 519: return "#VALUE!";
+        case 524: return "#REF!";
+        case 525: return "#NAME?";
+        case 532: return "#DIV/0!";
+        case 32767: return "#N/A";
+        default: return fmt::format("Err:{}", code);
+    }
+}
+
+[[noreturn]] void errorCell(const ColumnSource& s, const char* name, sal_Int32 row, sal_Int32 col) {
+    std::string where = columnLetters(s.address.StartColumn + col) + std::to_string(s.address.StartRow + row + 1);
+    std::string shown = "an error";
+    try {
+        const css::uno::Reference<css::sheet::XSheetCellRange> onSheet(s.range, css::uno::UNO_QUERY);
+        const css::uno::Reference<css::container::XNamed> sheet(
+            onSheet.is() ? onSheet->getSpreadsheet() : nullptr, css::uno::UNO_QUERY);
+        if (sheet.is()) where = utf8(sheet->getName()) + "." + where;
+        shown = errorText(s.range->getCellByPosition(col, row)->getError());
+    } catch (...) {
+        // The address alone still says where.
+    }
+    throw InputError(fmt::format("{} holds {} in cell {}: correct or clear that cell", name, shown, where));
+}
+
+// Reads the first `rows` rows of a Column argument: Calc's values down to its last row with
+// data, empty cells below. getDataArray gives an error cell as a void Any.
+Range readColumn(const ColumnSource& s, std::size_t rows, const char* name) {
+    Range r;
+    r.cols = s.extent.cols;
+    r.rows = rows;
+    r.cells.resize(rows * r.cols);
+    r.scalar = s.extent.rows == 1 && s.extent.cols == 1;
+    const std::size_t toRead = std::min(rows, s.extent.usedRows);
+    if (toRead == 0) return r;
+    const auto part = s.range->getCellRangeByPosition(0, 0, static_cast<sal_Int32>(r.cols) - 1,
+                                                      static_cast<sal_Int32>(toRead) - 1);
+    const auto data = css::uno::Reference<css::sheet::XCellRangeData>(part, css::uno::UNO_QUERY_THROW)
+                          ->getDataArray();
+    for (sal_Int32 i = 0; i < data.getLength() && static_cast<std::size_t>(i) < toRead; ++i) {
+        const auto& row = data[i];
+        for (sal_Int32 j = 0; j < row.getLength() && static_cast<std::size_t>(j) < r.cols; ++j) {
+            if (!row[j].hasValue()) errorCell(s, name, i, j);
+            r.cells[static_cast<std::size_t>(i) * r.cols + static_cast<std::size_t>(j)] = toCell(row[j]);
+        }
+    }
+    return r;
+}
+
 }  // namespace
 
 Arg toArg(const css::uno::Sequence<css::uno::Sequence<css::uno::Any>>& v) { return toRange(v); }
@@ -81,7 +191,38 @@ Arg toArg(const css::uno::Any& v) {
     return r;
 }
 
-css::uno::Any toAny(const OutTable& t) {
+UnoArg toArg(const css::uno::Reference<css::table::XCellRange>& v) noexcept { return UnoArg(v); }
+
+std::vector<Arg> readArguments(const FunctionSpec& f, std::vector<UnoArg> args) {
+    const std::size_t n = args.size();
+    std::vector<ArgKind> kinds(n, ArgKind::Optional);
+    std::vector<std::optional<ColumnSource>> sources(n);
+    std::vector<std::optional<ColumnExtent>> extents(n);
+    std::vector<Arg> values(n);
+    for (std::size_t i = 0; i < n; ++i) {
+        if (i < f.args.size()) kinds[i] = f.args[i].kind;
+        if (args[i].range.is()) {
+            kinds[i] = ArgKind::Column;
+            sources[i] = measure(args[i].range);
+            extents[i] = sources[i]->extent;
+        } else {
+            if (kinds[i] == ArgKind::Column) kinds[i] = ArgKind::Range;  // not passed as a range
+            values[i] = std::move(args[i].value);
+        }
+    }
+    const std::vector<std::size_t> rows = plannedRows(kinds, extents, values);
+    for (std::size_t i = 0; i < n; ++i) {
+        if (sources[i]) {
+            values[i] = readColumn(*sources[i], rows[i], i < f.args.size() ? f.args[i].name.c_str() : "argument");
+        } else if (values[i] && values[i]->rows != rows[i]) {
+            setRows(*values[i], rows[i]);
+        }
+    }
+    return values;
+}
+
+css::uno::Any toAny(OutTable result) {
+    const OutTable t = withinStoreLimits(std::move(result));
     if (t.scalar && t.rows.size() == 1 && t.rows[0].size() == 1) return toUno(t.rows[0][0]);
     std::size_t width = 1;
     for (const auto& row : t.rows) width = std::max(width, row.size());
@@ -104,6 +245,14 @@ css::uno::Any toAny(const OutTable& t) {
         rows[height - 1] = blank;
     }
     return css::uno::Any(out);
+}
+
+css::uno::Any failureAny(const std::string& message) noexcept {
+    try {
+        return css::uno::Any(OUString("Lintel: ") + ustr(message));
+    } catch (...) {
+        return css::uno::Any();
+    }
 }
 
 css::uno::Any failureAny(const char* message) noexcept {

@@ -3,12 +3,16 @@
 #pragma once
 
 #include <string>
+#include <vector>
 
+#include <com/sun/star/table/XCellRange.hpp>
 #include <com/sun/star/uno/Any.hxx>
+#include <com/sun/star/uno/Reference.hxx>
 #include <com/sun/star/uno/Sequence.hxx>
 #include <rtl/ustring.hxx>
 
 #include "cell_model.hpp"
+#include "function_table.hpp"
 
 using ::rtl::OString;
 using ::rtl::OUString;
@@ -26,10 +30,30 @@ Arg toArg(const com::sun::star::uno::Sequence<com::sun::star::uno::Sequence<com:
 // range as sequence<sequence<any>>.
 Arg toArg(const com::sun::star::uno::Any& v);
 
+// A Column argument (table::XCellRange): Calc passes the range itself; it is read by
+// readArguments, which sees all the arguments of the call.
+struct UnoArg {
+    Arg value;                                                 // a converted argument
+    com::sun::star::uno::Reference<com::sun::star::table::XCellRange> range;  // or a range to read
+    UnoArg(Arg v) : value(std::move(v)) {}  // NOLINT: the generated calls rely on it
+    explicit UnoArg(com::sun::star::uno::Reference<com::sun::star::table::XCellRange> r)
+        : range(std::move(r)) {}
+};
+UnoArg toArg(const com::sun::star::uno::Reference<com::sun::star::table::XCellRange>& v) noexcept;
+
+// The arguments of a call of f as the add-in's cells. A Column argument is read only down to
+// its last row holding data; rows are then planned as column_rows.hpp says (whole columns cut
+// to their data, other ranges keep their size). Throws InputError when a Column argument
+// holds an error value, naming its cell.
+std::vector<Arg> readArguments(const FunctionSpec& f, std::vector<UnoArg> args);
+
 // The result: a single value, or a sequence<sequence<any>> padded to a rectangle. A missing
 // value is an empty string: shown blank, skipped by AVERAGE and COUNT, a gap in charts
 // (a void Any would be the number 0 and a NaN would show #NUM!).
-com::sun::star::uno::Any toAny(const OutTable& t);
+// Results that would take Calc long to store are first trimmed or replaced by a message
+// (result_cost.hpp).
+com::sun::star::uno::Any toAny(OutTable t);
 com::sun::star::uno::Any failureAny(const char* message) noexcept;
+com::sun::star::uno::Any failureAny(const std::string& message) noexcept;
 
 }  // namespace lintel::addin
