@@ -9,6 +9,7 @@
 
 #include "diagnostics.hpp"
 #include "text.hpp"
+#include "text_keys.hpp"
 
 namespace lintel::addin {
 
@@ -115,7 +116,7 @@ bool OptionBag::flag(const std::string& key, bool fallback) const {
 std::string OptionBag::text(const std::string& key, const std::string& fallback) const {
     auto it = values_.find(key);
     if (it == values_.end() || it->second.isEmpty()) return fallback;
-    if (it->second.isNumber()) return fmt::format("{}", it->second.number);
+    if (it->second.isNumber()) return keyText(it->second.number);  // the core's number text
     return trim(it->second.text);
 }
 
