@@ -29,25 +29,6 @@ namespace {
 
 using namespace lintel;
 
-Frequency freqArg(const refcli::Args& a, const char* fallback = "M") {
-    const auto f = parseFrequency(refcli::text(a, "freq", fallback));
-    if (!f) throw InputError("bad freq");
-    return *f;
-}
-
-std::optional<double> optionalNumber(const refcli::Args& a, const std::string& key) {
-    const double x = refcli::number(a, key, NAN);
-    if (std::isfinite(x)) return x;
-    return std::nullopt;
-}
-
-// A whole-number option; nullopt when not given.
-std::optional<int> optionalInt(const refcli::Args& a, const std::string& key) {
-    const auto x = optionalNumber(a, key);
-    if (x) return static_cast<int>(*x);
-    return std::nullopt;
-}
-
 void report(const Diagnostics& d) {
     std::fprintf(stderr, "%s\n", d.summary().c_str());
     for (const auto& w : d.warnings) std::fprintf(stderr, "warning: %s\n", w.c_str());

@@ -23,17 +23,6 @@
 
 namespace {
 
-std::vector<int> intList(const refcli::Args& a, const std::string& key) {
-    std::vector<int> v;
-    std::string s = refcli::text(a, key, "");
-    for (char& c : s)
-        if (c == ',' || c == ';') c = ' ';
-    std::istringstream is(s);
-    int x;
-    while (is >> x) v.push_back(x);
-    return v;
-}
-
 lintel::HedonicInput readInput(const refcli::Table& t) {
     lintel::HedonicInput in;
     in.sales.date = t.numbers("date");
