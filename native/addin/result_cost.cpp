@@ -1,6 +1,7 @@
 #include "result_cost.hpp"
 
 #include <algorithm>
+#include <cmath>
 #include <vector>
 
 #include <fmt/format.h>
@@ -71,6 +72,11 @@ OutTable withinStoreLimits(OutTable t) {
                                                 "seconds; use fewer rows",
                                                 t.rows.size(), cells)}});
     return message;
+}
+
+std::size_t listRowsWithinLimit(std::size_t textCells) {
+    if (textCells == 0) return static_cast<std::size_t>(-1);
+    return static_cast<std::size_t>(std::sqrt(2.0 * kTrimBlankTailCost / static_cast<double>(textCells)));
 }
 
 }  // namespace lintel::addin

@@ -9,6 +9,7 @@
 #include "diagnostics.hpp"
 #include "function_table.hpp"
 #include "inputs.hpp"
+#include "label_text.hpp"
 #include "periods.hpp"
 
 namespace lintel::report {
@@ -91,7 +92,7 @@ private:
     // A block of data columns as one range: direct when contiguous, else copied by formula
     // into a helper block of the report sheet.
     std::string columnsBlock(const std::vector<int>& cols, const std::string& what);
-    std::string includeExpression();
+    std::string includeExpression(const std::string& dates, const std::string& prices, int idc);
     void countSegment();
 
     // Every write belongs to the block begun last; a block owns the bounding box of its writes.
@@ -209,28 +210,34 @@ std::string Planner::columnsBlock(const std::vector<int>& cols, const std::strin
                       c0 + static_cast<int>(cols.size()) - 1);
 }
 
-std::string Planner::includeExpression() {
+// The segment as ISSEGMENT masks (labels compared cleaned: "North ", "north" and "North" are
+// one value), times SALESCHECK's use mask when there are ids, so a sale entered twice counts
+// once and conflicting prices are left out.
+std::string Planner::includeExpression(const std::string& dates, const std::string& prices, int idc) {
     std::string expr;
+    const addin::FunctionSpec& isSegment = addin::functionSpec("ISSEGMENT");
     for (const auto& f : s_.segment) {
         if (f.values.empty()) continue;
         const int c = column(f.column, "segment", true);
-        bool numeric = false;
-        for (std::size_t r = 1; r < d_.cells.rows; ++r) {
-            const Cell& cell = d_.cells.at(r, c);
-            if (!cell.isEmpty()) { numeric = cell.isNumber(); break; }
-        }
         const std::string col = dataColumn(c);
-        auto lit = [&](const std::string& v) { return numeric ? v : formulaText(v); };
+        auto mask = [&](const std::string& v) {
+            return addin::formulaCall(isSegment, {{"labels", col}, {"values", formulaText(v)}});
+        };
         std::string term;
         if (f.values.size() == 1) {
-            term = fmt::format("({}={})", col, lit(f.values[0]));
+            term = mask(f.values[0]);
         } else {
             std::string sum;
-            for (const auto& v : f.values) sum += (sum.empty() ? "" : "+") + fmt::format("({}={})", col, lit(v));
+            for (const auto& v : f.values) sum += (sum.empty() ? "" : "+") + mask(v);
             term = "((" + sum + ")>0)";
         }
         expr += (expr.empty() ? "" : "*") + term;
     }
+    if (idc >= 0)
+        expr += (expr.empty() ? "" : "*") +
+                addin::formulaCall(addin::functionSpec("SALESCHECK"),
+                                   {{"dates", dates}, {"prices", prices}, {"ids", dataColumn(idc)},
+                                    {"options", formulaText("output=use; labels=clean")}});
     return expr;
 }
 
@@ -243,14 +250,22 @@ void Planner::countSegment() {
     long lo = LONG_MAX, hi = LONG_MIN;
     CallContext ctx;
     ctx.dateOffset = d_.dateOffset;
+    ctx.dateOrder = d_.dateOrder;
+    ctx.numbers = d_.numbers;
+    // The segment's values as ISSEGMENT compares them.
+    std::vector<std::vector<std::string>> wanted;
+    for (const auto& [c, f] : seg) {
+        wanted.emplace_back();
+        for (const auto& v : f->values) wanted.back().push_back(labelKey(v));
+    }
     for (std::size_t r = 1; r < d_.cells.rows; ++r) {
         const double date = addin::cellDate(d_.cells.at(r, dc), ctx);
-        const double price = addin::cellNumber(d_.cells.at(r, pc));
+        const double price = addin::cellNumber(d_.cells.at(r, pc), ctx.numbers);
         if (!isUsableSerial(date) || !(price > 0)) continue;
         bool keep = true;
-        for (const auto& [c, f] : seg) {
-            const std::string v = addin::cellKey(d_.cells.at(r, c));
-            keep = keep && std::find(f->values.begin(), f->values.end(), v) != f->values.end();
+        for (std::size_t k = 0; k < seg.size() && keep; ++k) {
+            const std::string v = labelKey(addin::cellKey(d_.cells.at(r, seg[k].first)));
+            keep = std::find(wanted[k].begin(), wanted[k].end(), v) != wanted[k].end();
         }
         if (!keep) continue;
         ++plan_.salesUsed;
@@ -328,7 +343,7 @@ ReportPlan Planner::run() {
     text(sr, 0, "Settings", true);
     const std::string dates = dataColumn(column(s_.dateColumn, "sale date", true));
     const std::string prices = dataColumn(column(s_.priceColumn, "price", true));
-    const std::string include = includeExpression();
+    const std::string include = includeExpression(dates, prices, idc);
     const int rowFreq = sr + 4, rowBase = sr + 5, rowLevel = sr + 6;
     text(sr + 1, 0, "Sales data"); text(sr + 1, 1, s_.dataRange);
     text(sr + 2, 0, "Segment"); text(sr + 2, 1, s_.segmentText());
@@ -382,6 +397,9 @@ ReportPlan Planner::run() {
         block(fmt::format("table_{}", methodKey(m)), fmt::format("index table: {}", methodLabel(m)));
         if (i == 0) text(Layout::kTableTitleRow - 1, 0, "Index tables (array formulas; base period = 100)", true);
         std::string opts = "\"level=\"&" + cellRef(rowLevel, 1);
+        // Strata, categories and ids compared cleaned, as the segment.
+        if (m == Method::Mix || m == Method::Hedonic || m == Method::ReferenceHome || m == Method::RepeatSales)
+            opts += "&" + formulaText("; labels=clean");
         auto adv = s_.advanced.find(methodKey(m));
         if (adv != s_.advanced.end() && !adv->second.empty())
             opts += "&" + formulaText("; " + adv->second);

@@ -26,6 +26,10 @@ struct SheetData {
     // Days to add to the document's serials to count from 1899-12-30 (1462 in a document
     // counting from 1904-01-01): date cells are read and serials written in the document's own.
     double dateOffset = 0.0;
+    // The document's order of day and month and its separators, for dates and prices
+    // written as text (as the functions read them: cell_model.hpp CallContext).
+    DateOrder dateOrder = DateOrder::Unknown;
+    NumberFormat numbers;
 };
 
 struct CellWrite {
