@@ -76,7 +76,10 @@ OutTable withinStoreLimits(OutTable t) {
 
 std::size_t listRowsWithinLimit(std::size_t textCells) {
     if (textCells == 0) return static_cast<std::size_t>(-1);
-    return static_cast<std::size_t>(std::sqrt(2.0 * kTrimBlankTailCost / static_cast<double>(textCells)));
+    // n rows cost about textCells n (n - 1) / 2, plus about textCells^2 n / 2 for the first row
+    // (every later column is still numbers then): the square root, less textCells + 1.
+    const double n = std::sqrt(2.0 * kTrimBlankTailCost / static_cast<double>(textCells));
+    return static_cast<std::size_t>(std::max(1.0, n - static_cast<double>(textCells) - 1));
 }
 
 }  // namespace lintel::addin
