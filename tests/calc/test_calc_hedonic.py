@@ -369,7 +369,7 @@ class HedonicBadInputTest(SheetCalls, unittest.TestCase):
         cells = self.array("H1:L20", f'=INDEXHEDONIC(A1:A{n};B1:B{n};C1:F{n};;;;"log=1; categorical=2; notes=1")')
         notes = {r[0]: r[1] for r in cells if isinstance(r[0], str) and r[0]}
         self.assertEqual(notes["rows used"], float(n - 3))
-        self.assertEqual(notes["dropped: blank or non-numeric price"], 1.0)
+        self.assertEqual(notes["dropped: unreadable price"], 1.0)  # "n/a" is no number
         self.assertEqual(notes["dropped: log of a non-positive characteristic"], 2.0)
 
     def test_messages(self):

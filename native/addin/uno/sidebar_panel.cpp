@@ -65,6 +65,7 @@
 #include "diagnostics.hpp"
 #include "inputs.hpp"
 #include "label_text.hpp"
+#include "locale_facts.hpp"
 #include "periods.hpp"
 #include "report_builder.hpp"
 #include "report_settings.hpp"
