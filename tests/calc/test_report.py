@@ -91,20 +91,28 @@ class ReportTest(unittest.TestCase):
         self.assertEqual(rep.getCellRangeByName("A1").getString(),
                          f"Price indexes: District = East (2021-Q1 .. 2023-Q4), sales up to {up_to}")
         self.assertIn("appraisal by a licensed professional", rep.getCellRangeByName("A2").getString())
-        self.assertEqual(rep.getCellRangeByName("B7").getString(), '($Sales.$D$2:$D$901="East")')
+        # The segment compared cleaned (ISSEGMENT) and each sale used once (SALESCHECK's mask:
+        # the generated ids repeat, and four ids sell twice on one day at two prices).
+        self.assertEqual(rep.getCellRangeByName("B7").getString(),
+                         'ISSEGMENT($Sales.$D$2:$D$901;"East")*SALESCHECK($Sales.$A$2:$A$901;$Sales.$B$2:$B$901;'
+                         '$Sales.$C$2:$C$901;;;;"output=use; labels=clean")')
         # Index tables: one array formula per method, sized to the 12 periods, each a named range.
         table = self.named("Lintel_r1_table_median")
         self.assertEqual(table.Rows.Count, 12)
         # (the API shows array formulas in braces with "," separators)
         self.assertEqual(table.getArrayFormula(),
-                         '{=INDEXMEDIAN($Sales.$A$2:$A$901,$Sales.$B$2:$B$901,($Sales.$D$2:$D$901="East"),$B$8,$B$9,"level="&$B$10)}')
+                         '{=INDEXMEDIAN($Sales.$A$2:$A$901,$Sales.$B$2:$B$901,ISSEGMENT($Sales.$D$2:$D$901,"East")*'
+                         'SALESCHECK($Sales.$A$2:$A$901,$Sales.$B$2:$B$901,$Sales.$C$2:$C$901,,,,'
+                         '"output=use; labels=clean"),$B$8,$B$9,"level="&$B$10)}')
         self.assertTrue(self.named("Lintel_r1_table_mean").getArrayFormula().startswith("{=INDEXMEAN("))
         # The report's values equal the function called directly.
         direct = self.doc.Sheets
         direct.insertNewByName("Direct", direct.Count)
         d = direct.getByName("Direct")
         d.getCellRangeByName("A1:E12").setArrayFormula(
-            '=INDEXMEDIAN($Sales.A2:A901;$Sales.B2:B901;($Sales.D2:D901="East");"Q";DATE(2022;2;10);"level=0.9")')
+            '=INDEXMEDIAN($Sales.A2:A901;$Sales.B2:B901;ISSEGMENT($Sales.D2:D901;"East")*'
+            'SALESCHECK($Sales.A2:A901;$Sales.B2:B901;$Sales.C2:C901;;;;"output=use; labels=clean");'
+            '"Q";DATE(2022;2;10);"level=0.9")')
         self.doc.calculateAll()
         self.assertEqual([list(r) for r in table.getDataArray()], sheet_values(d, "A1:E12"))
         self.assertEqual(table.getCellByPosition(1, 4).getValue(), 100.0)  # 2022-Q1 is the base
@@ -149,7 +157,7 @@ class ReportTest(unittest.TestCase):
         self.assertIn("13 periods (2021-Q1 .. 2024-Q1)", status)
         table = self.named("Lintel_r1_table_median")
         self.assertEqual(table.Rows.Count, 13)
-        self.assertEqual(table.getArrayFormula().count("$A$2:$A$906"), 1)
+        self.assertEqual(table.getArrayFormula().count("$A$2:$A$906"), 2)  # dates, and SALESCHECK's
         self.assertEqual(table.getCellByPosition(2, 12).getValue(), 5.0)
         self.assertEqual(self.doc.Sheets.Count, 2)  # updated in place, not added
 
@@ -342,7 +350,8 @@ class ReportTest(unittest.TestCase):
             # The function called directly on the same data (quarterly, base 2022-02-10).
             comp.getCellRangeByName("C1:G13").setArrayFormula(
                 f'=INDEXHEDONIC($Sales.A2:A{last};$Sales.B2:B{last};$Sales.E2:E{last};'
-                f'($Sales.D2:D{last}="East");"Q";DATE(2022;2;10);"level=0.9")')
+                f'ISSEGMENT($Sales.D2:D{last};"East")*SALESCHECK($Sales.A2:A{last};$Sales.B2:B{last};'
+                f'$Sales.C2:C{last};;;;"output=use; labels=clean");"Q";DATE(2022;2;10);"level=0.9; labels=clean")')
             comp.getCellRangeByName("B1").setFormula(
                 "=PRICEADJUST(350000;DATE(2021;5;14);DATE(2023;10;1);C1:C13;D1:D13)")
             self.doc.calculateAll()
