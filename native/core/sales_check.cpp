@@ -58,13 +58,12 @@ std::string shown(const RawValue& v, bool isDate) {
     return {};
 }
 
-// An id or label as compared: its label key, or with clean = false the text as written (a
-// text of blanks only is blank either way).
+// An id or label as compared: its label key, or with clean = false the text as written
+// without blanks at both ends (as the repeat-sales ids are compared).
 std::string keyOf(const RawValue& v, bool clean) {
     switch (v.kind) {
         case RawValue::Kind::Empty: return {};
-        case RawValue::Kind::Text:
-            return clean ? labelKey(v.text) : text::trim(v.text).empty() ? std::string() : v.text;
+        case RawValue::Kind::Text: return clean ? labelKey(v.text) : std::string(text::trim(v.text));
         case RawValue::Kind::Number: return numberText(v.number);
     }
     return {};

@@ -103,7 +103,7 @@ struct SalesCheckOptions {
     std::size_t firstRowNumber = 1;  // the number the first data row gets (1 + header rows)
     std::string datesName = "dates", pricesName = "prices", idsName = "ids";
     // Ids and segment labels compared by their label keys (label_text.hpp: "AB-12 " = "ab-12");
-    // false: as written (a number cell as its key text).
+    // false: as written, blanks at both ends ignored (a number cell as its key text).
     bool cleanLabels = true;
 
     void validate() const;

@@ -459,7 +459,7 @@ BOOST_AUTO_TEST_CASE(salescheck_lists_every_planted_problem) {
     BOOST_TEST(num(t.rows[3][4]) > 3.5);
     BOOST_TEST((t.rows[1][4].kind == OutCell::Kind::NoValue));
 
-    // Without label cleaning, "h0 " is another property than "H0": no duplicate.
+    // Without label cleaning, "h0 " (blanks ignored) is another property than "H0": no duplicate.
     const OutTable exact = call("SALESCHECK", checkArgs(m, "header=1"), locale(DateOrder::DayMonthYear));
     for (const auto& r : exact.rows) BOOST_TEST(txt(r[2]) != "duplicate");
 }
