@@ -187,8 +187,9 @@ OutTable refHomeValue(const Call& call) {
 ArgSpec characteristicsArg() {
     return {"characteristics", ArgKind::Column,
             "Characteristics of each sold home, one column per characteristic (floor area, "
-            "rooms, district ...), rows aligned with dates. Number columns enter as numbers, "
-            "text columns as categories (one term per level except the most frequent)."};
+            "rooms, district ...), rows aligned with dates. Number columns enter as numbers "
+            "(also numbers written as text, such as 1,250), text columns as categories (one "
+            "term per level except the most frequent)."};
 }
 ArgSpec homeArg() {
     return {"home", ArgKind::Optional,

@@ -102,8 +102,8 @@ ArgSpec idsArg() {
     return {"ids", ArgKind::Column,
             "Property id of each sale, one column aligned with dates (text or numbers). Sales "
             "with the same id are the same property; blanks around an id are ignored, case "
-            "matters, the number 123 and the text \"123\" are one id. A blank id drops the "
-            "sale."};
+            "matters (with labels=clean it does not), the number 123 and the text \"123\" are "
+            "one id. A blank id drops the sale."};
 }
 ArgSpec changedArg() {
     return {"changed", ArgKind::Optional,
