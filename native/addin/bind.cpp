@@ -223,7 +223,8 @@ ArgSpec prices() {
 ArgSpec include() {
     return {"include", ArgKind::Optional,
             "Optional column of 1/0 or TRUE/FALSE choosing the sales to use, e.g. "
-            "(C2:C5001=\"North\")*(D2:D5001=\"flat\"). Empty: all sales."};
+            "(C2:C5001=\"North\")*(D2:D5001=\"flat\"), or ISSEGMENT(C2:C5001;\"North\") to "
+            "ignore case and stray blanks. Empty: all sales."};
 }
 ArgSpec options() {
     return {"options", ArgKind::Optional,

@@ -149,8 +149,8 @@ class ReportTest(unittest.TestCase):
         self.assertIn("methods=median|mean", stored)
         # New sales pasted below the table, in 2024-Q1: update rewrites in place and grows.
         sales = self.doc.Sheets.getByName("Sales")
-        extra = [(float((pd.Timestamp("2024-02-15") - EPOCH).days), 200000.0 + i, "H900", "East", 90.0)
-                 for i in range(5)]
+        extra = [(float((pd.Timestamp("2024-02-15") - EPOCH).days), 200000.0 + i, f"H90{i}", "East", 90.0)
+                 for i in range(5)]  # five homes (one home sold five times on a day would be left out)
         last = len(self.rows)
         sales.getCellRangeByName(f"A{last + 1}:E{last + 5}").setDataArray(extra)
         status = self.build(mode="update", sheet="Report East")
