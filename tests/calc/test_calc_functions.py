@@ -278,7 +278,7 @@ class BadInputTest(SheetCalls, unittest.TestCase):
             '=INDEXMEDIAN(A1:A40;B1:B40;;"W")': 'Lintel: freq must be "M", "Q" or "Y", got "W"',
             '=INDEXMEDIAN(A1:A40;B1:B40;;;DATE(2030;1;1))': "Lintel: base 2030-01-01 lies outside the data (2023-01 .. 2023-12)",
             '=INDEXMEDIAN(A1:A40;B1:B40;;;;"minsales=x")': 'Lintel: option minsales must be a number, got "x"',
-            '=INDEXMEDIAN(A1:A40;B1:B40;;;;"trim=0.1")': 'Lintel: unknown option "trim" for INDEXMEDIAN (known: minsales, level, header, titles, notes)',
+            '=INDEXMEDIAN(A1:A40;B1:B40;;;;"trim=0.1")': 'Lintel: unknown option "trim" for INDEXMEDIAN (known: minsales, level, dateorder, header, titles, notes)',
             '=INDEXMEAN(A1:A40;B1:B40;;;;"trim=0.7")': "Lintel: option trim must lie in [0, 0.5), got 0.7",
             '=INDEXMEDIAN(A1:A40;B1:B40;;;;"level=95")': "Lintel: option level must lie between 0 and 1, got 95",
             '=INDEXMEDIAN(A1:B40;B1:B40)': "Lintel: dates must be one column, got 2 columns",
