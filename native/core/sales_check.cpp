@@ -371,15 +371,15 @@ SalesCheck checkSales(const SalesCheckInput& in, const SalesCheckOptions& o) {
                 dropFor[i] = SaleProblem::DuplicateSale;
                 readable[i] = 0;
             } else if (dup.mark[i] == DuplicateMark::Conflict) {
-                std::string rows, prices;
+                std::string rows, amounts;
                 for (std::size_t j : conflictRows[dup.firstOf[i]]) {
                     rows += fmt::format("{}{}", rows.empty() ? "" : ", ", o.firstRowNumber + j);
-                    prices += fmt::format("{}{}", prices.empty() ? "" : ", ", numberText(r.price[j]));
+                    amounts += fmt::format("{}{}", amounts.empty() ? "" : ", ", numberText(r.price[j]));
                 }
                 list(i, o.pricesName, SaleProblem::ConflictingPrices, shown(in.prices[i], false),
                      fmt::format("id {} sold on {} at different prices ({}) in rows {}: none is used "
                                  "until the source is fixed",
-                                 shown(in.ids[i], false), isoDate(r.date[i]), prices, rows));
+                                 shown(in.ids[i], false), isoDate(r.date[i]), amounts, rows));
                 dropFor[i] = SaleProblem::ConflictingPrices;
                 readable[i] = 0;
             }
