@@ -125,10 +125,29 @@ double date(const Cell& c, const std::string& what, const CallContext& ctx) {
     bool comma = false;
     std::size_t fraction = 0;
     const auto serial = c.isText() ? plainNumber(trim(c.text), comma, fraction) : std::nullopt;
+    if (c.isText() && !(serial && !comma)) {
+        // A date written as text, in the document's order (or the dateorder option's).
+        const DateText t = readDateText(c.text, ctx.dateOrder);
+        if (t.ok()) return t.serial;
+        if (t.status == DateTextStatus::Unreadable || t.status == DateTextStatus::Blank)
+            throw InputError(fmt::format("{} must be a date, got \"{}\"; {}", what, shown(c),
+                                         acceptedDateForms(ctx.dateOrder)));
+        throw InputError(fmt::format("{}: {}", what, t.message));
+    }
     const double s = serial && !comma ? *serial + ctx.dateOffset : cellDate(c, ctx);
     if (!isUsableSerial(s))
         throw InputError(fmt::format("{} must be a date, got \"{}\"", what, shown(c)));
     return s;
+}
+
+std::optional<DateOrder> dateOrder(const Cell& c, const std::string& what) {
+    const std::string t = trim(c.isText() ? c.text : std::string());
+    const std::optional<DateOrder> o = parseDateOrder(t);
+    if (!o)
+        throw InputError(fmt::format("{} must be \"auto\", \"DMY\", \"MDY\" or \"YMD\", got \"{}\"", what,
+                                     shown(c)));
+    if (*o == DateOrder::Unknown) return std::nullopt;  // auto
+    return o;
 }
 
 std::vector<int> columns(const Cell& c, const std::string& what) {
@@ -193,15 +212,19 @@ OptionSpec notes() {
 }
 ArgSpec dates() {
     return {"dates", ArgKind::Column,
-            "Sale dates, one column (date cells or ISO text such as 2024-03-15)."};
+            "Sale dates, one column: date cells, or text such as 2024-03-15 or 15/03/2024 (day "
+            "and month in the document's order, or as the option dateorder says)."};
 }
 ArgSpec prices() {
-    return {"prices", ArgKind::Column, "Sale prices, one column aligned with dates."};
+    return {"prices", ArgKind::Column,
+            "Sale prices, one column aligned with dates: numbers, or text such as 350,000 or "
+            "$350,000 (with the document's decimal separator)."};
 }
 ArgSpec include() {
     return {"include", ArgKind::Optional,
             "Optional column of 1/0 or TRUE/FALSE choosing the sales to use, e.g. "
-            "(C2:C5001=\"North\")*(D2:D5001=\"flat\"). Empty: all sales."};
+            "(C2:C5001=\"North\")*(D2:D5001=\"flat\"), or ISSEGMENT(C2:C5001;\"North\") to "
+            "ignore case and stray blanks. Empty: all sales."};
 }
 ArgSpec options() {
     return {"options", ArgKind::Optional,

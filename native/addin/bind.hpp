@@ -44,6 +44,8 @@ Frequency frequency(const Cell& c, const std::string& what);
 double date(const Cell& c, const std::string& what, const CallContext& ctx);
 // Column numbers "1,3" or "1 3" (1 = leftmost), each >= 1.
 std::vector<int> columns(const Cell& c, const std::string& what);
+// "auto" (nullopt), "DMY", "MDY" or "YMD".
+std::optional<DateOrder> dateOrder(const Cell& c, const std::string& what);
 }  // namespace read
 
 // ---- Params ----------------------------------------------------------------------------
@@ -77,7 +79,11 @@ Binding bindField(M member, Convert convert) {
                               const std::string& what) {
         using F = FieldOf<O, M>;
         using V = typename ValueOf<F>::type;
-        static_cast<O*>(object)->*member = static_cast<V>(convert(c, ctx, what));
+        using R = std::decay_t<decltype(convert(c, ctx, what))>;
+        if constexpr (std::is_same_v<R, F>)
+            static_cast<O*>(object)->*member = convert(c, ctx, what);  // e.g. an optional as is
+        else
+            static_cast<O*>(object)->*member = static_cast<V>(convert(c, ctx, what));
     };
     return b;
 }
@@ -188,6 +194,42 @@ Param date(M member) {
     return p;
 }
 
+// ---- Reading a sales table: options every function that reads sales shares ----------------
+// labels: how text in label columns (segments, strata, categories, ids) is compared.
+enum class LabelMode {
+    Exact,  // as written: "North" and "north " are two values (blanks around ids are trimmed)
+    Clean,  // by label key (label_text.hpp): blanks trimmed and collapsed, case folded; each
+            // group shows as its most frequent spelling
+};
+// The reading options of the index functions and SALESCHECK (bound by spec::dateorder and
+// spec::labels, applied by the cell conversion in inputs.cpp).
+struct ReadOptions {
+    // Order of day and month in dates written as text; nullopt ("auto"): the document's, and
+    // where that gives none the order the column's texts show.
+    std::optional<DateOrder> dateOrder;
+    LabelMode labels = LabelMode::Exact;
+};
+// ISSEGMENT's options: it compares cleaned labels unless told otherwise.
+struct SegmentOptions {
+    LabelMode labels = LabelMode::Clean;
+};
+
+// "auto" (nullopt), "DMY", "MDY", "YMD" (any case; also "D/M/Y" and the like).
+template <class O, class M>
+Param dateOrderChoice(M member) {
+    Param p;
+    p.binding = detail::bindField<O>(member, [](const Cell& c, const CallContext&, const std::string& what) {
+        return read::dateOrder(c, what);
+    });
+    p.defaultText = "auto";
+    return p;
+}
+template <class O, class M>
+Param labelMode(M member) {
+    return choice<O>(member, std::vector<std::pair<std::string, LabelMode>>{{"exact", LabelMode::Exact},
+                                                                           {"clean", LabelMode::Clean}});
+}
+
 // ---- Presentation options every table function may take --------------------------------
 // header: the input ranges start with a header row; titles: a titles row above the output;
 // notes: the diagnostics below it.
@@ -228,6 +270,24 @@ OptionSpec minsales(std::string description =
     return option("minsales", whole<O>(&O::minSales, 1), std::move(description));
 }
 std::string levelCheck(double x);
+// dateorder=auto|DMY|MDY|YMD (into O::dateOrder, a std::optional<DateOrder>).
+template <class O = ReadOptions>
+OptionSpec dateorder() {
+    return option("dateorder", dateOrderChoice<O>(&O::dateOrder),
+                  "Order of day and month in dates written as text: \"DMY\" (15/03/2024), "
+                  "\"MDY\" (03/15/2024), \"YMD\" (2024/03/15); \"auto\": the document's "
+                  "language, and where that does not tell, the order the column's texts show. "
+                  "Also applies to a base date written as text.");
+}
+// labels=exact|clean (into O::labels); `columns` names the label columns read.
+template <class O = ReadOptions>
+OptionSpec labels(const std::string& columns) {
+    return option("labels", labelMode<O>(&O::labels),
+                  "How text in " + columns +
+                      " is compared: \"exact\" as written; \"clean\": blanks around and "
+                      "inside trimmed (also no-break spaces) and case ignored, so \"Ellenford \", "
+                      "\"ellenford\" and \"Ellenford\" are one value.");
+}
 template <class O>
 OptionSpec level(std::string description =
                      "Confidence level of the lower and upper band, between 0 and 1.") {

@@ -23,6 +23,14 @@ Call::Call(const FunctionSpec& spec, const std::vector<Arg>& args, const CallCon
         b.set(object.get(), value, ctx_, what);
         appliedBy_[b.target] = key;
     };
+    const int optionsArg = spec.argIndex("options");
+    const OptionBag bag = OptionBag::parse(optionsArg >= 0 ? args[static_cast<std::size_t>(optionsArg)] : Arg{}, spec);
+    // dateorder= stands for the document's order in this call: every date it reads as text
+    // (the dates column, and the base date bound below) uses it.
+    if (spec.option("dateorder"))
+        if (const Cell* v = bag.find("dateorder"); v && v->isText())
+            if (const auto order = parseDateOrder(v->text); order && *order != DateOrder::Unknown)
+                ctx_.dateOrder = *order;
     // Arguments bound to a field, in argument order (their messages name the argument).
     for (std::size_t i = 0; i < spec.args.size(); ++i) {
         const ArgSpec& a = spec.args[i];
@@ -34,8 +42,6 @@ Call::Call(const FunctionSpec& spec, const std::vector<Arg>& args, const CallCon
         apply(a.binding, r.at(0, 0), a.name, a.name);
     }
     // Options.
-    const int optionsArg = spec.argIndex("options");
-    const OptionBag bag = OptionBag::parse(optionsArg >= 0 ? args[static_cast<std::size_t>(optionsArg)] : Arg{}, spec);
     for (const OptionSpec& o : spec.options) {
         if (!o.binding) throw std::logic_error(fmt::format("option {} of {} has no binding", o.key, spec.name));
         if (const Cell* v = bag.find(o.key)) apply(o.binding, *v, "option " + o.key, o.key);

@@ -8,6 +8,9 @@
 #include <string>
 #include <vector>
 
+#include "date_text.hpp"
+#include "number_text.hpp"
+
 namespace lintel::addin {
 
 struct Cell {
@@ -28,6 +31,10 @@ struct Range {
     std::size_t rows = 0, cols = 0;
     std::vector<Cell> cells;
     bool scalar = false;  // the argument was a single value, not a cell range
+    // The sheet's number of its first row (1 = the sheet's first row) when the argument was a
+    // cell range read from a sheet; 0 when not known (a value, an expression, a test). Messages
+    // about rows use it, so "row 17" is the row the user sees.
+    std::size_t sheetRow = 0;
 
     const Cell& at(std::size_t r, std::size_t c) const { return cells[r * cols + c]; }
     Cell& at(std::size_t r, std::size_t c) { return cells[r * cols + c]; }
@@ -36,11 +43,24 @@ struct Range {
 // One argument: missing (omitted or left empty) or a range / value.
 using Arg = std::optional<Range>;
 
-// Context of one call, supplied by the UNO layer.
+// Context of one call, supplied by the UNO layer: facts of the document the core cannot know.
+// The defaults are what a call gets when the document says nothing usable: ISO dates (and
+// texts where day and month cannot be confused), "." as the decimal separator, no upper bound
+// for plausible sale dates.
 struct CallContext {
     // Days to add to a document serial to get a serial with day 0 = 1899-12-30 (0 unless the
     // document uses another null date, e.g. 1904-01-01).
     double dateOffset = 0.0;
+    // The order of day and month in dates written as text in the document's language
+    // (15/03/2024 or 03/15/2024); the option dateorder= overrides it for one call.
+    DateOrder dateOrder = DateOrder::Unknown;
+    // The decimal and thousands separators of the document's language, for numbers written
+    // as text ("350,000", "350.000,00").
+    NumberFormat numbers;
+    // The current year (sale dates after the end of the next year are doubtful); 0 = unknown.
+    int currentYear = 0;
+    // The language the facts above come from ("en-GB"), for messages; empty when unknown.
+    std::string locale;
 };
 
 // What a function returns: a table of output cells. `noValue` cells are written as an empty

@@ -47,8 +47,9 @@ OutTable mix(const Call& call) {
     const Range& strata = call.required("strata");
     MixInput in;
     in.sales = readSales(call, {{"strata", &strata}});
+    const LabelMode labels = call.options<ReadOptions>().labels;
     for (std::size_t c = 0; c < strata.cols; ++c)
-        in.strata.push_back(keyColumn(strata, call.headerRows(), c));
+        in.strata.push_back(labelColumn(strata, call.headerRows(), c, labels));
     const MixResult r = indexMix(in, o);
     OutTable out = indexTableCells(r, call);
     if (call.layout().notes) {
@@ -297,7 +298,8 @@ std::vector<FunctionSpec> analyticsFunctions() {
                 "Bootstrap replicates, 20 to 10000 (with bands=bootstrap)."),
          option("seed", whole<MO>(&MO::seed, 0),
                 "Bootstrap random seed (a whole number >= 0); the same seed gives the same band."),
-         spec::level<MO>("Level of the bootstrap band, between 0 and 1."), header, titles, notes},
+         spec::level<MO>("Level of the bootstrap band, between 0 and 1."), spec::dateorder(),
+         spec::labels("the strata"), header, titles, notes},
         spec::indexColumns(),
         spec::indexOutput() +
             " Sales used: the sales of the strata priced and weighted in that period. Bands: "

@@ -13,48 +13,83 @@
 #include "function_table.hpp"
 #include "hedonic.hpp"
 #include "inputs.hpp"
+#include "label_text.hpp"
+#include "text_keys.hpp"
 
 namespace lintel::addin {
 
 namespace {
 
+// A text that is only digits ("101", "0042"): in a column without number cells it is taken
+// for a code (a category level), not a quantity.
+bool plainDigits(const std::string& t) {
+    const std::string_view v = trimBlanks(t);
+    if (v.empty()) return false;
+    for (char ch : v)
+        if (ch < '0' || ch > '9') return false;
+    return true;
+}
+
 // characteristics -> one CharacteristicColumn per column, classified by the core's rule
-// (classifyColumn). With header=1 the first row holds the column names.
-std::vector<CharacteristicColumn> readCharacteristics(const Range& chars, std::size_t header) {
+// (classifyColumn). With header=1 the first row holds the column names. A text that reads as a
+// number with the document's separators ("1,250", "85.5") counts as that number; a text of
+// digits only does so where the column also holds number cells. With labels=clean the texts
+// of a category column are compared cleaned (each group written as its most frequent
+// spelling); `levels` then gets, per column, each label key with its spelling (for the home).
+std::vector<CharacteristicColumn> readCharacteristics(
+    const Range& chars, std::size_t header, const NumberFormat& format, LabelMode labels,
+    std::vector<std::vector<std::pair<std::string, std::string>>>* levels = nullptr) {
     std::vector<CharacteristicColumn> out;
     out.reserve(chars.cols);
     const std::size_t n = chars.rows > header ? chars.rows - header : 0;
     std::vector<double> numbers;
     std::vector<std::string> texts;
+    if (levels) levels->assign(chars.cols, {});
     for (std::size_t c = 0; c < chars.cols; ++c) {
         std::string name = header ? cellKey(chars.at(0, c)) : std::string();
         numbers.clear();
         texts.clear();
         numbers.reserve(n);
         texts.reserve(n);
+        bool numberCells = false;
+        for (std::size_t i = header; i < chars.rows && !numberCells; ++i) numberCells = chars.at(i, c).isNumber();
         for (std::size_t i = header; i < chars.rows; ++i) {
             const Cell& cell = chars.at(i, c);
-            numbers.push_back(cellNumber(cell));
-            texts.push_back(cell.isText() ? cell.text : std::string());  // a number gives ""
+            double x = cellNumber(cell);
+            if (cell.isText() && (numberCells || !plainDigits(cell.text))) x = cellNumber(cell, format);
+            numbers.push_back(x);
+            texts.push_back(cell.isText() && std::isnan(x) ? cell.text : std::string());  // a number gives ""
+        }
+        if (labels == LabelMode::Clean) {
+            const LabelGroups g = groupLabels(texts);
+            for (std::size_t i = 0; i < texts.size(); ++i)
+                texts[i] = g.groupOfRow[i] < 0 ? std::string() : g.groups[static_cast<std::size_t>(g.groupOfRow[i])].display;
+            if (levels)
+                for (const LabelGroup& l : g.groups) (*levels)[c].emplace_back(l.key, l.display);
         }
         out.push_back(classifyColumn(std::move(name), numbers, texts));
     }
     return out;
 }
 
-HedonicInput readInput(const Call& call) {
+HedonicInput readInput(const Call& call,
+                       std::vector<std::vector<std::pair<std::string, std::string>>>* levels = nullptr) {
     const Range& chars = call.required("characteristics");
     HedonicInput in;
     // Checks that dates, prices, include and characteristics have the same rows.
     in.sales = readSales(call, {{"characteristics", &chars}});
-    in.characteristics = readCharacteristics(chars, call.headerRows());
+    in.characteristics = readCharacteristics(chars, call.headerRows(), call.ctx().numbers,
+                                             call.options<ReadOptions>().labels, levels);
     return in;
 }
 
 // home -> HomeInput: one row, a cell per characteristics column (with header=1 a header row
 // above it may be included). Omitted, or a single blank cell: the base period's median home (both vectors
-// empty). The core checks the number of cells against the characteristics.
-HomeInput readHome(const Arg& arg, std::size_t header) {
+// empty). The core checks the number of cells against the characteristics. Numbers written as
+// text are read as in the characteristics; with labels=clean a category is matched cleaned
+// (`levels` from readCharacteristics).
+HomeInput readHome(const Arg& arg, std::size_t header, const NumberFormat& format,
+                   const std::vector<std::vector<std::pair<std::string, std::string>>>& levels) {
     HomeInput home;
     if (!arg) return home;
     const Range& r = *arg;
@@ -69,8 +104,15 @@ HomeInput readHome(const Arg& arg, std::size_t header) {
     home.texts.reserve(r.cols);
     for (std::size_t c = 0; c < r.cols; ++c) {
         const Cell& cell = r.at(row, c);
-        home.numbers.push_back(cellNumber(cell));
-        home.texts.push_back(cell.isText() ? cell.text : std::string());
+        const double x = cell.isText() && !plainDigits(cell.text) ? cellNumber(cell, format) : cellNumber(cell);
+        home.numbers.push_back(x);
+        std::string text = cell.isText() && std::isnan(x) ? cell.text : std::string();
+        if (!text.empty() && c < levels.size() && !levels[c].empty()) {
+            const std::string key = labelKey(text);
+            for (const auto& [k, display] : levels[c])
+                if (k == key) text = display;
+        }
+        home.texts.push_back(std::move(text));
     }
     return home;
 }
@@ -112,8 +154,9 @@ OutTable hedonicCoefs(const Call& call) {
 
 OutTable refHomeValue(const Call& call) {
     const HedonicOptions o = call.options<HedonicOptions>();
-    const HedonicInput in = readInput(call);
-    const HomeInput home = readHome(call.arg("home"), call.headerRows());
+    std::vector<std::vector<std::pair<std::string, std::string>>> levels;
+    const HedonicInput in = readInput(call, &levels);
+    const HomeInput home = readHome(call.arg("home"), call.headerRows(), call.ctx().numbers, levels);
     const RefHomeResult r = referenceHomeValue(in, home, o);
     const std::size_t kWidth = call.spec().width();
     OutTable out;
@@ -144,8 +187,9 @@ OutTable refHomeValue(const Call& call) {
 ArgSpec characteristicsArg() {
     return {"characteristics", ArgKind::Column,
             "Characteristics of each sold home, one column per characteristic (floor area, "
-            "rooms, district ...), rows aligned with dates. Number columns enter as numbers, "
-            "text columns as categories (one term per level except the most frequent)."};
+            "rooms, district ...), rows aligned with dates. Number columns enter as numbers "
+            "(also numbers written as text, such as 1,250), text columns as categories (one "
+            "term per level except the most frequent)."};
 }
 ArgSpec homeArg() {
     return {"home", ArgKind::Optional,
@@ -243,7 +287,8 @@ std::vector<FunctionSpec> hedonicFunctions() {
         "the mix of homes sold.",
         fitArgs,
         {logOption(), categoricalOption(), windowOption(), seOption(), biasOption(),
-         minsalesOption(), spec::level<O>(), headerOption(), spec::titles(), spec::notes()},
+         minsalesOption(), spec::level<O>(), spec::dateorder(), spec::labels("text characteristics (categories)"), headerOption(),
+         spec::titles(), spec::notes()},
         spec::indexColumns(),
         spec::indexOutput() +
             " Bands: the confidence interval of the change from the base period (the base row "
@@ -259,7 +304,8 @@ std::vector<FunctionSpec> hedonicFunctions() {
         "the fit statistics.",
         coefsArgs,
         {logOption(), categoricalOption(), windowOption(), seOption(), coefsMinsalesOption(),
-         headerOption(), spec::titles(), spec::notes()},
+         spec::dateorder(), spec::labels("text characteristics (categories)"), headerOption(),
+         spec::titles(), spec::notes()},
         {{"term", ""}, {"coefficient", "0.0000"}, {"std error", "0.0000"}, {"t", "0.00"}},
         "4 columns: term | coefficient | std error | t, one row per term: (Intercept) (the "
         "reference period's log level), the characteristic terms (named from the header row "
@@ -277,7 +323,8 @@ std::vector<FunctionSpec> hedonicFunctions() {
         "(retransformed from logs), with a confidence band for the model's price of that home.",
         homeArgs,
         {logOption(), categoricalOption(), windowOption(), seOption(), retransformOption(),
-         minsalesOption(), spec::level<O>(), headerOption(), spec::titles(), spec::notes()},
+         minsalesOption(), spec::level<O>(), spec::dateorder(), spec::labels("text characteristics (categories)"), headerOption(),
+         spec::titles(), spec::notes()},
         {{"period", "YYYY-MM-DD"}, {"value", "#,##0"}, {"lower", "#,##0"}, {"upper", "#,##0"}},
         "4 columns, one row per period: period start date | value | lower band | upper band. "
         "Periods without enough sales show blank cells. With notes=1: the home used (one row "

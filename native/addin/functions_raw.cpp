@@ -74,7 +74,7 @@ std::vector<FunctionSpec> rawIndexFunctions() {
                 "Fraction of sales cut from each tail of a period before the mean (0.1 = 10 % of "
                 "the lowest and 10 % of the highest prices); the band is then the trimmed-mean "
                 "interval."),
-         spec::level<O>(), spec::header(), spec::titles(), spec::notes()},
+         spec::level<O>(), spec::dateorder(), spec::header(), spec::titles(), spec::notes()},
         spec::indexColumns(),
         spec::indexOutput(),
         "=INDEXMEAN(A2:A5001;B2:B5001;(C2:C5001=\"North\");\"Q\")",
@@ -87,7 +87,8 @@ std::vector<FunctionSpec> rawIndexFunctions() {
         "(= 100), with a distribution-free confidence band. Raw: no adjustment for the mix of "
         "homes sold.",
         indexArgs,
-        {spec::minsales<O>(), spec::level<O>(), spec::header(), spec::titles(), spec::notes()},
+        {spec::minsales<O>(), spec::level<O>(), spec::dateorder(), spec::header(), spec::titles(),
+         spec::notes()},
         spec::indexColumns(),
         spec::indexOutput(),
         "=INDEXMEDIAN(A2:A5001;B2:B5001)",

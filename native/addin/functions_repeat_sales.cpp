@@ -47,7 +47,7 @@ RepeatSalesInput readInput(const Call& call) {
     const std::size_t h = call.headerRows();
     // Ids as cellKey writes them: text as it is (the core trims it), numbers in canonical form
     // (the same text as the core's propertyIdFromNumber, so 123 and "123" are one property).
-    in.id = keyColumn(ids, h);
+    in.id = labelColumn(ids, h, 0, call.options<ReadOptions>().labels);
     if (changed) {
         in.changed.reserve(changed->rows - h);
         for (std::size_t i = h; i < changed->rows; ++i)
@@ -102,8 +102,8 @@ ArgSpec idsArg() {
     return {"ids", ArgKind::Column,
             "Property id of each sale, one column aligned with dates (text or numbers). Sales "
             "with the same id are the same property; blanks around an id are ignored, case "
-            "matters, the number 123 and the text \"123\" are one id. A blank id drops the "
-            "sale."};
+            "matters (with labels=clean it does not), the number 123 and the text \"123\" are "
+            "one id. A blank id drops the sale."};
 }
 ArgSpec changedArg() {
     return {"changed", ArgKind::Optional,
@@ -182,7 +182,8 @@ std::vector<FunctionSpec> repeatSalesFunctions() {
         {idsArg(), spec::dates(), spec::prices(), changedArg(), includeArg(), spec::freq<O>(),
          spec::base<O>(), spec::options()},
         {methodOption(), minholdOption(), maxrateOption(), chainOption(), initOption(),
-         minsalesOption(), spec::level<O>(), spec::header(), spec::titles(), spec::notes()},
+         minsalesOption(), spec::level<O>(), spec::dateorder(), spec::labels("ids"), spec::header(),
+         spec::titles(), spec::notes()},
         spec::indexColumns("pairs"),
         spec::indexOutput() +
             " Count: pairs whose second sale falls in the period (the first period shows 0). "
@@ -200,8 +201,8 @@ std::vector<FunctionSpec> repeatSalesFunctions() {
         "and its weight. Takes the same filters and options as CHAINRS.",
         {idsArg(), spec::dates(), spec::prices(), changedArg(), includeArg(), spec::options()},
         {methodOption(), minholdOption(), maxrateOption(), chainOption(), initOption(),
-         minsalesOption(), spec::level<O>(), freqOption(), baseOption(), spec::header(),
-         spec::titles(), spec::notes()},
+         minsalesOption(), spec::level<O>(), freqOption(), baseOption(), spec::dateorder(),
+         spec::labels("ids"), spec::header(), spec::titles(), spec::notes()},
         {{"id", ""}, {"first date", "YYYY-MM-DD"}, {"first price", "#,##0"},
          {"second date", "YYYY-MM-DD"}, {"second price", "#,##0"}, {"months held", "0"},
          {"annual log return", "0.0000"}, {"used", "0"}, {"reason", ""}, {"weight", "0.000"}},

@@ -7,7 +7,11 @@
 
 #include <fmt/format.h>
 
+#include <array>
+#include <stdexcept>
+
 #include "diagnostics.hpp"
+#include "label_text.hpp"
 #include "text_keys.hpp"
 
 namespace lintel::addin {
@@ -53,31 +57,25 @@ std::size_t checkAligned(const std::vector<NamedRange>& ranges,
     return n;
 }
 
-namespace {
-std::optional<double> parseIsoDate(const std::string& s) {
-    int y = 0, m = 0, d = 0;
-    char tail = 0;
-    if (std::sscanf(s.c_str(), "%4d-%2d-%2d%c", &y, &m, &d, &tail) != 3) return std::nullopt;
-    if (m < 1 || m > 12 || d < 1 || d > 31) return std::nullopt;
-    const double serial = serialFromCivil({y, m, d});
-    const CivilDate back = civilFromSerial(serial);
-    if (back.month != m || back.day != d) return std::nullopt;  // 2023-02-30
-    return serial;
-}
-}  // namespace
-
 double cellDate(const Cell& c, const CallContext& ctx) {
     if (c.isNumber()) return c.number + ctx.dateOffset;
     if (c.isText()) {
-        std::string t = c.text;
-        t.erase(std::remove_if(t.begin(), t.end(), [](unsigned char ch) { return std::isspace(ch); }),
-                t.end());
-        if (auto s = parseIsoDate(t)) return *s;
+        const DateText t = readDateText(c.text, ctx.dateOrder);
+        if (t.ok()) return t.serial;
     }
     return kNoValue;
 }
 
 double cellNumber(const Cell& c) { return c.isNumber() ? c.number : kNoValue; }
+
+double cellNumber(const Cell& c, const NumberFormat& numbers) {
+    if (c.isNumber()) return c.number;
+    if (c.isText()) {
+        const NumberText t = readNumberText(c.text, numbers);
+        if (t.ok()) return t.value;
+    }
+    return kNoValue;
+}
 
 char cellFlag(const Cell& c) {
     if (c.isNumber()) return c.number != 0 ? 1 : 0;
@@ -117,26 +115,137 @@ std::vector<std::string> keyColumn(const Range& r, std::size_t first, std::size_
     return v;
 }
 
+TableReading tableReading(const Call& call, const Range& first) {
+    const ReadOptions o = call.options<ReadOptions>();
+    const CallContext& ctx = call.ctx();
+    TableReading t;
+    t.read.dateOrder = o.dateOrder ? *o.dateOrder : ctx.dateOrder;
+    t.read.numbers = ctx.numbers;
+    t.read.currentYear = ctx.currentYear;
+    t.labels = o.labels;
+    t.firstRowNumber = (first.sheetRow ? first.sheetRow : 1) + call.headerRows();
+    return t;
+}
+
+std::vector<RawValue> rawColumn(const Range& r, std::size_t first, std::size_t c) {
+    std::vector<RawValue> v;
+    v.reserve(r.rows > first ? r.rows - first : 0);
+    for (std::size_t i = first; i < r.rows; ++i) {
+        const Cell& cell = r.at(i, c);
+        if (cell.isNumber()) v.push_back(RawValue::of(cell.number));
+        else if (cell.isText()) v.push_back(RawValue::of(cell.text));
+        else v.push_back(RawValue::empty());
+    }
+    return v;
+}
+
+std::vector<RawValue> rawDates(const Range& r, std::size_t first, const CallContext& ctx, std::size_t c) {
+    std::vector<RawValue> v = rawColumn(r, first, c);
+    if (ctx.dateOffset != 0)
+        for (RawValue& x : v)
+            if (x.kind == RawValue::Kind::Number) x.number += ctx.dateOffset;
+    return v;
+}
+
+void cleanLabels(std::vector<std::string>& labels) {
+    const LabelGroups g = groupLabels(labels);
+    for (std::size_t i = 0; i < labels.size(); ++i)
+        labels[i] = g.groupOfRow[i] < 0 ? std::string() : g.groups[static_cast<std::size_t>(g.groupOfRow[i])].display;
+}
+
+std::vector<std::string> labelColumn(const Range& r, std::size_t first, std::size_t c, LabelMode mode) {
+    std::vector<std::string> v = keyColumn(r, first, c);
+    if (mode == LabelMode::Clean) cleanLabels(v);
+    return v;
+}
+
+namespace {
+
+// The drop reason of a cell the conversion could not read (the sales check's problem of the
+// same words; a blank cell keeps the screening's "blank or non-... " reason).
+DropReason readReason(SaleProblem p) {
+    switch (p) {
+        case SaleProblem::BlankDate: return DropReason::BadDate;
+        case SaleProblem::UnreadableDate: return DropReason::UnreadableDate;
+        case SaleProblem::TwoDigitYear: return DropReason::TwoDigitYear;
+        case SaleProblem::NoSuchDate: return DropReason::NoSuchDate;
+        case SaleProblem::AmbiguousDate: return DropReason::AmbiguousDate;
+        case SaleProblem::BlankPrice: return DropReason::BadPrice;
+        case SaleProblem::UnreadablePrice: return DropReason::UnreadablePrice;
+        case SaleProblem::AmbiguousNumber: return DropReason::AmbiguousNumber;
+        case SaleProblem::NonPositivePrice: return DropReason::NonPositivePrice;
+        default: break;
+    }
+    throw std::logic_error(fmt::format("no drop reason for \"{}\"", saleProblemText(p)));
+}
+
+// Notes on what could not be read: per problem its count and the first row with the reason
+// (which names the forms accepted). Dates implausible for a sale are used: listed by row.
+void readingNotes(const std::vector<CellIssue>& issues, const std::vector<double>& serials,
+                  const TableReading& t, const Range& dates, const Range& prices, std::size_t header,
+                  std::vector<std::string>& notes) {
+    std::array<std::size_t, kSaleProblemCount> count{};
+    std::array<const CellIssue*, kSaleProblemCount> first{};
+    std::vector<const CellIssue*> doubtful;
+    for (const CellIssue& c : issues) {
+        const auto k = static_cast<std::size_t>(c.problem);
+        if (c.problem == SaleProblem::ImplausibleDate) doubtful.push_back(&c);
+        else if (c.problem == SaleProblem::BlankDate || c.problem == SaleProblem::BlankPrice ||
+                 c.problem == SaleProblem::NonPositivePrice)
+            continue;  // said well enough by the count of the drop reason
+        if (!count[k]++) first[k] = &c;
+    }
+    for (std::size_t k = 0; k < kSaleProblemCount; ++k) {
+        if (!count[k] || static_cast<SaleProblem>(k) == SaleProblem::ImplausibleDate) continue;
+        const CellIssue& c = *first[k];
+        std::string hint;
+        if (c.index == 0 && header == 0 && dates.at(0, 0).isText() && prices.at(0, 0).isText())
+            hint = " (a header row? add header=1 to the options)";
+        notes.push_back(fmt::format("{} ({} row{}), first row {}: {}{}", saleProblemText(static_cast<SaleProblem>(k)),
+                                    count[k], count[k] == 1 ? "" : "s", t.firstRowNumber + c.index, c.detail, hint));
+    }
+    if (!doubtful.empty()) {
+        constexpr std::size_t kListed = 5;
+        std::string rows;
+        for (std::size_t i = 0; i < doubtful.size() && i < kListed; ++i) {
+            rows += fmt::format("{}row {} ({})", i ? ", " : "", t.firstRowNumber + doubtful[i]->index,
+                                isoDate(serials[doubtful[i]->index]));
+        }
+        if (doubtful.size() > kListed) rows += fmt::format(" and {} more", doubtful.size() - kListed);
+        notes.push_back(fmt::format("{} ({} row{}, used as given: a price or another number in the date "
+                                    "column?): {}; the dates must lie from 1900 to {}",
+                                    saleProblemText(SaleProblem::ImplausibleDate), doubtful.size(),
+                                    doubtful.size() == 1 ? "" : "s", rows,
+                                    t.read.currentYear > 0 ? std::to_string(t.read.currentYear + 1)
+                                                           : std::string("any later year")));
+    }
+}
+
+}  // namespace
+
+const Range* includeMask(const Call& call, std::size_t rows) {
+    const Arg& includeArg = call.arg("include");
+    if (!includeArg) return nullptr;
+    const Range* include = &*includeArg;
+    // A single value for include: 1 (or TRUE, or a blank) means "every row"; 0 or FALSE
+    // means none, which is said rather than silently ignored.
+    if (include->rows * include->cols == 1 && rows != 1) {
+        const Cell& c = include->at(0, 0);
+        if (!c.isEmpty() && !cellFlag(c))
+            throw InputError(
+                "include is a single 0 or FALSE: no sale is chosen (give a column of 1/0, "
+                "or leave include empty for all sales)");
+        return nullptr;
+    }
+    return include;
+}
+
 SalesInput readSales(const Call& call, const std::vector<NamedRange>& extra) {
     const Range& dates = call.required("dates");
     const Range& prices = call.required("prices");
-    const Arg& includeArg = call.arg("include");
-    const Range* include = includeArg ? &*includeArg : nullptr;
+    const Range* include = includeMask(call, dates.rows);
     std::vector<NamedRange> all = {{"dates", &dates}, {"prices", &prices}};
-    if (include) {
-        // A single value for include: 1 (or TRUE, or a blank) means "every row"; 0 or FALSE
-        // means none, which is said rather than silently ignored.
-        if (include->rows * include->cols == 1 && dates.rows != 1) {
-            const Cell& c = include->at(0, 0);
-            if (!c.isEmpty() && !cellFlag(c))
-                throw InputError(
-                    "include is a single 0 or FALSE: no sale is chosen (give a column of 1/0, "
-                    "or leave include empty for all sales)");
-            include = nullptr;
-        } else {
-            all.push_back({"include", include});
-        }
-    }
+    if (include) all.push_back({"include", include});
     std::vector<const char*> multi;
     for (const auto& e : extra) {
         all.push_back(e);
@@ -147,8 +256,6 @@ SalesInput readSales(const Call& call, const std::vector<NamedRange>& extra) {
     if (n <= h) throw InputError("the ranges hold no rows below the header");
 
     SalesInput in;
-    in.date = dateColumn(dates, h, call.ctx());
-    in.price = numberColumn(prices, h);
     if (include) {
         in.include.reserve(n - h);
         for (std::size_t i = h; i < n; ++i) in.include.push_back(cellFlag(include->at(i, 0)));
@@ -161,6 +268,24 @@ SalesInput readSales(const Call& call, const std::vector<NamedRange>& extra) {
                 empty = e.range->at(i, c).isEmpty();
         in.emptyRow[i - h] = empty ? 1 : 0;
     }
+
+    // Dates and prices as the sales check reads them; empty rows are not read.
+    const TableReading t = tableReading(call, dates);
+    const CallContext& ctx = call.ctx();
+    ColumnReading d = readDateColumn(rawDates(dates, h, ctx), t.read, in.emptyRow, t.firstRowNumber);
+    ColumnReading p = readPriceColumn(rawColumn(prices, h), t.read.numbers, in.emptyRow);
+    in.date = std::move(d.value);
+    in.price = std::move(p.value);
+    in.readProblem.assign(n - h, std::nullopt);
+    // A row's reason is its date's, else its price's (the screening's order).
+    for (const CellIssue& c : d.issues)
+        if (c.problem != SaleProblem::ImplausibleDate) in.readProblem[c.index] = readReason(c.problem);
+    for (const CellIssue& c : p.issues)
+        if (!in.readProblem[c.index]) in.readProblem[c.index] = readReason(c.problem);
+    in.notes = std::move(d.notes);
+    std::vector<CellIssue> issues = std::move(d.issues);
+    for (CellIssue& c : p.issues) issues.push_back(std::move(c));
+    readingNotes(issues, in.date, t, dates, prices, h, in.notes);
     return in;
 }
 

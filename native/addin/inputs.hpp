@@ -13,7 +13,9 @@
 #include "function_table.hpp"
 #include "index_table.hpp"
 #include "periods.hpp"
+#include "bind.hpp"
 #include "sales.hpp"
+#include "sales_check.hpp"
 
 namespace lintel::addin {
 
@@ -29,11 +31,15 @@ struct NamedRange {
 std::size_t checkAligned(const std::vector<NamedRange>& ranges,
                          const std::vector<const char*>& multiColumn = {});
 
-// A cell as a date serial (day 0 = 1899-12-30): a number (document serial + offset) or an
-// ISO text date "YYYY-MM-DD"; NaN otherwise.
+// A cell as a date serial (day 0 = 1899-12-30): a number (document serial + offset) or a
+// date written as text (date_text.hpp: ISO, and day/month/year in ctx.dateOrder); NaN
+// otherwise.
 double cellDate(const Cell& c, const CallContext& ctx);
 // A cell as a number; NaN for blank or text.
 double cellNumber(const Cell& c);
+// A cell as a number, text read with the document's separators (number_text.hpp: "350,000",
+// "$350,000", "350.000,00" with a decimal comma); NaN for blank, unreadable or ambiguous text.
+double cellNumber(const Cell& c, const NumberFormat& numbers);
 // A cell as an include flag: 1/0, TRUE/FALSE; blank = 0.
 char cellFlag(const Cell& c);
 // A cell as text for categories and ids: text as is, numbers in canonical form ("3", "2.5").
@@ -45,10 +51,42 @@ std::vector<double> dateColumn(const Range& r, std::size_t first, const CallCont
 std::vector<double> numberColumn(const Range& r, std::size_t first, std::size_t c = 0);
 std::vector<std::string> keyColumn(const Range& r, std::size_t first, std::size_t c = 0);
 
+// How a call reads its sales table: the reading options (dateorder, labels) with the
+// document's facts (CallContext), and the number rows get in messages.
+struct TableReading {
+    SalesReadOptions read;  // date order (the option's, else the document's), separators,
+                            // current year
+    LabelMode labels = LabelMode::Exact;
+    // The number of the first row below the header in messages: the sheet's row number when
+    // `first` is a range on a sheet, else counted from 1 at the range's first cell.
+    std::size_t firstRowNumber = 1;
+};
+TableReading tableReading(const Call& call, const Range& first);
+
+// Column c of a range from row `first` on, as the core's raw cells.
+std::vector<RawValue> rawColumn(const Range& r, std::size_t first, std::size_t c = 0);
+// The same for dates: numbers (the document's serials) shifted by ctx.dateOffset to day 0 =
+// 1899-12-30, as the core counts.
+std::vector<RawValue> rawDates(const Range& r, std::size_t first, const CallContext& ctx, std::size_t c = 0);
+// Column c as labels (strata, categories, ids): exact as cellKey gives them, or cleaned: every
+// label of a group with one label key (label_text.hpp) written as the group's most frequent
+// spelling. Blank stays "".
+std::vector<std::string> labelColumn(const Range& r, std::size_t first, std::size_t c, LabelMode mode);
+// The same for a column already read as text.
+void cleanLabels(std::vector<std::string>& labels);
+
+// The argument "include" as a mask for a table of `rows` rows: nullptr when it chooses every
+// row (omitted, or a single 1, TRUE or blank); InputError for a single 0 or FALSE.
+const Range* includeMask(const Call& call, std::size_t rows);
+
 // Reads the arguments "dates", "prices" and the optional "include" mask into a SalesInput (a
 // header row is skipped with header=1). Marks rows where every given cell is blank. `extra`
 // are further aligned ranges (characteristics, ids ...) checked for row count and counted in
 // the empty-row test.
+// Dates and prices are read as the sales check reads them (sales_check.hpp readDateColumn,
+// readPriceColumn) with tableReading(call): a cell that cannot be read is dropped with its
+// reason, and the notes name the first row of each reason with the forms accepted; dates
+// before 1900 or after the next year are used and listed in the notes.
 SalesInput readSales(const Call& call, const std::vector<NamedRange>& extra = {});
 
 // The shared index layout: period start | index | count | lower | upper, with the titles row

@@ -1,6 +1,7 @@
 #include "result_cost.hpp"
 
 #include <algorithm>
+#include <cmath>
 #include <vector>
 
 #include <fmt/format.h>
@@ -71,6 +72,14 @@ OutTable withinStoreLimits(OutTable t) {
                                                 "seconds; use fewer rows",
                                                 t.rows.size(), cells)}});
     return message;
+}
+
+std::size_t listRowsWithinLimit(std::size_t textCells) {
+    if (textCells == 0) return static_cast<std::size_t>(-1);
+    // n rows cost about textCells n (n - 1) / 2, plus about textCells^2 n / 2 for the first row
+    // (every later column is still numbers then): the square root, less textCells + 1.
+    const double n = std::sqrt(2.0 * kTrimBlankTailCost / static_cast<double>(textCells));
+    return static_cast<std::size_t>(std::max(1.0, n - static_cast<double>(textCells) - 1));
 }
 
 }  // namespace lintel::addin

@@ -14,6 +14,8 @@
 // stored as an empty cell in the same way (measured slower), and numbers are not blank.
 #pragma once
 
+#include <cstddef>
+
 #include "cell_model.hpp"
 
 namespace lintel::addin {
@@ -34,5 +36,10 @@ inline constexpr double kMaxStoreCost = 1.2e10;
 // t as it may be returned: unchanged, without its trailing no-value rows, or a one-cell
 // message when it would still cost more than kMaxStoreCost.
 OutTable withinStoreLimits(OutTable t);
+
+// The most rows a list may have, before it is built, to stay within kTrimBlankTailCost when
+// each row holds `textCells` text or blank cells after a first column of numbers: each such
+// cell costs about the rows below it, so n rows cost about textCells n^2 / 2.
+std::size_t listRowsWithinLimit(std::size_t textCells);
 
 }  // namespace lintel::addin

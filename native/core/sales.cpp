@@ -18,11 +18,13 @@ ScreenedSales screenRows(const SalesInput& in, Frequency freq, Diagnostics& diag
                          const RowProblems* extra) {
     const std::size_t n = in.date.size();
     if (in.price.size() != n || (!in.include.empty() && in.include.size() != n) ||
-        (!in.emptyRow.empty() && in.emptyRow.size() != n) || (extra && extra->size() != n))
+        (!in.emptyRow.empty() && in.emptyRow.size() != n) || (extra && extra->size() != n) ||
+        (!in.readProblem.empty() && in.readProblem.size() != n))
         throw InputError("internal: sales columns differ in length");
 
     ScreenedSales out;
     diag.rowsIn = n;
+    for (const std::string& note : in.notes) diag.warn(note);
     std::vector<long> keys;
     keys.reserve(n);
     out.rows.reserve(n);
@@ -32,7 +34,8 @@ ScreenedSales screenRows(const SalesInput& in, Frequency freq, Diagnostics& diag
     for (std::size_t i = 0; i < n; ++i) {
         std::optional<DropReason> why;
         if (!in.emptyRow.empty() && in.emptyRow[i]) why = DropReason::EmptyRow;
-        else if (auto p = saleProblem(in.date[i], in.price[i])) why = p;
+        else if (auto p = saleProblem(in.date[i], in.price[i]))
+            why = !in.readProblem.empty() && in.readProblem[i] ? in.readProblem[i] : p;
         else if (extra && (*extra)[i]) why = (*extra)[i];
         else if (!in.include.empty() && !in.include[i]) why = DropReason::Excluded;
         if (why) {
@@ -67,6 +70,7 @@ ScreenedSales screenSales(const SalesInput& in, Frequency freq, Diagnostics& dia
     if (out.rows.empty()) {
         std::string why = in.date.empty() ? "the ranges hold no rows"
                                           : "no usable sale: " + diag.summary();
+        for (const std::string& note : in.notes) why += "; " + note;
         throw InputError(why);
     }
     return out;

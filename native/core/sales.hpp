@@ -4,6 +4,7 @@
 
 #include <cstddef>
 #include <optional>
+#include <string>
 #include <vector>
 
 #include "diagnostics.hpp"
@@ -18,6 +19,14 @@ struct SalesInput {
     std::vector<double> price;
     std::vector<char> include;    // empty = every row; else 1 keeps the row, 0 drops it
     std::vector<char> emptyRow;   // empty, or 1 where every input cell of the row was blank
+    // Empty, or per row why its date or price (NaN) could not be read, in the words of the
+    // cell conversion ("unreadable date", "two-digit year", "ambiguous number" ...); the
+    // screening counts that reason instead of "blank or non-date date" / "... price".
+    std::vector<std::optional<DropReason>> readProblem;
+    // What the cell conversion has to say (the first unreadable cell of each kind and the
+    // forms accepted, doubtful dates, the date order taken): the screening passes them on as
+    // warnings, and says them when no row is usable.
+    std::vector<std::string> notes;
 };
 
 // Per row: nullopt when the row passes, else why it is dropped.
@@ -35,7 +44,8 @@ struct ScreenedSales {
 // NonPositivePrice, or nullopt when both are usable.
 std::optional<DropReason> saleProblem(double date, double price);
 
-// Drops rows that are empty (emptyRow), have an unusable date or price, fail the caller's
+// Drops rows that are empty (emptyRow), have an unusable date or price (counted as
+// in.readProblem says, where it says something), fail the caller's
 // further check `extra` (ids, characteristics, strata: a per-row reason), or are excluded by
 // the include mask, in that order; counts each reason in diag (rowsIn and rowsUsed are set).
 // Does not throw when no row is usable (the axis is then empty).

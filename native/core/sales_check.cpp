@@ -58,10 +58,12 @@ std::string shown(const RawValue& v, bool isDate) {
     return {};
 }
 
-std::string keyOf(const RawValue& v) {
+// An id or label as compared: its label key, or with clean = false the text as written
+// without blanks at both ends (as the repeat-sales ids are compared).
+std::string keyOf(const RawValue& v, bool clean) {
     switch (v.kind) {
         case RawValue::Kind::Empty: return {};
-        case RawValue::Kind::Text: return labelKey(v.text);
+        case RawValue::Kind::Text: return clean ? labelKey(v.text) : std::string(text::trim(v.text));
         case RawValue::Kind::Number: return numberText(v.number);
     }
     return {};
@@ -128,6 +130,124 @@ std::size_t SalesCheck::count(SaleProblem p) const {
     return 0;
 }
 
+namespace {
+bool skipped(const std::vector<char>& skip, std::size_t i) { return !skip.empty() && skip[i]; }
+}  // namespace
+
+ColumnReading readDateColumn(const std::vector<RawValue>& cells, const SalesReadOptions& o,
+                             const std::vector<char>& skip, std::size_t firstRowNumber) {
+    const std::size_t n = cells.size();
+    if (!skip.empty() && skip.size() != n) throw std::logic_error("readDateColumn: skip differs in length");
+    ColumnReading r;
+    r.value.assign(n, kNaN);
+
+    // The day/month order of the texts: as given, else as the column shows it.
+    r.dateOrder = o.dateOrder;
+    {
+        std::vector<std::string> texts(n);
+        bool anyText = false;
+        for (std::size_t i = 0; i < n; ++i)
+            if (!skipped(skip, i) && cells[i].kind == RawValue::Kind::Text) {
+                texts[i] = cells[i].text;
+                anyText = true;
+            }
+        const DateOrderEvidence e = anyText ? inferDateOrder(texts) : DateOrderEvidence{};
+        const bool known = r.dateOrder == DateOrder::DayMonthYear || r.dateOrder == DateOrder::MonthDayYear;
+        const auto row = [&](std::size_t i) { return firstRowNumber + i; };
+        if (!known && o.inferOrder && e.order != DateOrder::Unknown) {
+            r.dateOrder = e.order;
+            r.notes.push_back(fmt::format("dates read as {}: {} of them can only be read that way (first: row {})",
+                                          dateOrderName(e.order),
+                                          e.order == DateOrder::DayMonthYear ? e.dayFirstRows : e.monthFirstRows,
+                                          row(e.order == DateOrder::DayMonthYear ? e.firstDayFirst : e.firstMonthFirst)));
+        } else if (e.conflict) {
+            r.notes.push_back(fmt::format("the dates mix day/month/year (first: row {}) and month/day/year "
+                                          "(first: row {}): check the source",
+                                          row(e.firstDayFirst), row(e.firstMonthFirst)));
+        } else if (r.dateOrder == DateOrder::DayMonthYear && e.order == DateOrder::MonthDayYear) {
+            r.notes.push_back(fmt::format("{} dates can only be read as month/day/year (first: row {}) but the "
+                                          "date order is day/month/year: check the date order",
+                                          e.monthFirstRows, row(e.firstMonthFirst)));
+        } else if (r.dateOrder == DateOrder::MonthDayYear && e.order == DateOrder::DayMonthYear) {
+            r.notes.push_back(fmt::format("{} dates can only be read as day/month/year (first: row {}) but the "
+                                          "date order is month/day/year: check the date order",
+                                          e.dayFirstRows, row(e.firstDayFirst)));
+        }
+    }
+
+    const double earliest = serialFromCivil({1900, 1, 1});
+    const double latest = o.currentYear > 0 ? serialFromCivil({o.currentYear + 2, 1, 1})
+                                            : std::numeric_limits<double>::infinity();
+    for (std::size_t i = 0; i < n; ++i) {
+        if (skipped(skip, i)) continue;
+        const RawValue& d = cells[i];
+        double serial = kNaN;
+        if (d.kind == RawValue::Kind::Number) {
+            if (!isUsableSerial(d.number)) {
+                r.issues.push_back({i, SaleProblem::UnreadableDate,
+                                    fmt::format("the number {} is not a date (a date cell counts days from "
+                                                "1899-12-30)",
+                                                numberText(d.number))});
+                continue;
+            }
+            serial = d.number;
+        } else {
+            const DateText t = readDateText(d.kind == RawValue::Kind::Text ? d.text : std::string(), r.dateOrder);
+            if (!t.ok()) {
+                const SaleProblem p = dateProblem(t.status);
+                r.issues.push_back({i, p, p == SaleProblem::BlankDate
+                                              ? "no date: the sale cannot be placed in a period"
+                                              : t.message});
+                continue;
+            }
+            serial = t.serial;
+        }
+        r.value[i] = serial;
+        if (serial < earliest || serial >= latest)
+            r.issues.push_back({i, SaleProblem::ImplausibleDate,
+                                o.currentYear > 0
+                                    ? fmt::format("{} lies before 1900 or after {}", isoDate(serial), o.currentYear + 1)
+                                    : fmt::format("{} lies before 1900", isoDate(serial))});
+    }
+    return r;
+}
+
+ColumnReading readPriceColumn(const std::vector<RawValue>& cells, const NumberFormat& numbers,
+                              const std::vector<char>& skip) {
+    const std::size_t n = cells.size();
+    if (!skip.empty() && skip.size() != n) throw std::logic_error("readPriceColumn: skip differs in length");
+    ColumnReading r;
+    r.value.assign(n, kNaN);
+    for (std::size_t i = 0; i < n; ++i) {
+        if (skipped(skip, i)) continue;
+        const RawValue& p = cells[i];
+        double price = kNaN;
+        SaleProblem problem = SaleProblem::BlankPrice;
+        std::string detail;
+        if (p.kind == RawValue::Kind::Number) {
+            price = p.number;
+        } else if (p.kind == RawValue::Kind::Text) {
+            NumberText t = readNumberText(p.text, numbers);
+            if (t.ok()) price = t.value;
+            else if (t.status == NumberTextStatus::Ambiguous) problem = SaleProblem::AmbiguousNumber;
+            else if (t.status == NumberTextStatus::Unreadable) problem = SaleProblem::UnreadablePrice;
+            detail = std::move(t.message);
+        }
+        if (std::isfinite(price) && price <= 0) {
+            r.value[i] = price;
+            r.issues.push_back({i, SaleProblem::NonPositivePrice, "a sale price must be more than 0"});
+            continue;
+        }
+        if (!std::isfinite(price)) {
+            if (problem == SaleProblem::BlankPrice) detail = "no price (a dash or an empty cell)";
+            r.issues.push_back({i, problem, std::move(detail)});
+            continue;
+        }
+        r.value[i] = price;
+    }
+    return r;
+}
+
 SalesCheck checkSales(const SalesCheckInput& in, const SalesCheckOptions& o) {
     o.validate();
     const std::size_t n = in.dates.size();
@@ -175,35 +295,11 @@ SalesCheck checkSales(const SalesCheckInput& in, const SalesCheckOptions& o) {
         }
     }
 
-    // The day/month order of the date texts.
-    r.dateOrder = o.read.dateOrder;
-    {
-        std::vector<std::string> texts(n);
-        for (std::size_t i = 0; i < n; ++i)
-            if (!r.skipped[i] && in.dates[i].kind == RawValue::Kind::Text) texts[i] = in.dates[i].text;
-        const DateOrderEvidence e = inferDateOrder(texts);
-        const bool known = r.dateOrder == DateOrder::DayMonthYear || r.dateOrder == DateOrder::MonthDayYear;
-        const auto row = [&](std::size_t i) { return o.firstRowNumber + i; };
-        if (!known && o.read.inferOrder && e.order != DateOrder::Unknown) {
-            r.dateOrder = e.order;
-            diag.warn(fmt::format("dates read as {}: {} of them can only be read that way (first: row {})",
-                                  dateOrderName(e.order),
-                                  e.order == DateOrder::DayMonthYear ? e.dayFirstRows : e.monthFirstRows,
-                                  row(e.order == DateOrder::DayMonthYear ? e.firstDayFirst : e.firstMonthFirst)));
-        } else if (e.conflict) {
-            diag.warn(fmt::format("the dates mix day/month/year (first: row {}) and month/day/year "
-                                  "(first: row {}): check the source",
-                                  row(e.firstDayFirst), row(e.firstMonthFirst)));
-        } else if (r.dateOrder == DateOrder::DayMonthYear && e.order == DateOrder::MonthDayYear) {
-            diag.warn(fmt::format("{} dates can only be read as month/day/year (first: row {}) but the "
-                                  "date order is day/month/year: check the date order",
-                                  e.monthFirstRows, row(e.firstMonthFirst)));
-        } else if (r.dateOrder == DateOrder::MonthDayYear && e.order == DateOrder::DayMonthYear) {
-            diag.warn(fmt::format("{} dates can only be read as day/month/year (first: row {}) but the "
-                                  "date order is month/day/year: check the date order",
-                                  e.dayFirstRows, row(e.firstDayFirst)));
-        }
-    }
+    // Dates and prices.
+    const ColumnReading dates = readDateColumn(in.dates, o.read, r.skipped, o.firstRowNumber);
+    const ColumnReading prices = readPriceColumn(in.prices, o.read.numbers, r.skipped);
+    r.dateOrder = dates.dateOrder;
+    for (const std::string& note : dates.notes) diag.warn(note);
 
     // Per-row problems, in row order; the table keeps them grouped by row at the end.
     std::vector<std::vector<SalesProblemRow>> perRow(n);
@@ -221,87 +317,45 @@ SalesCheck checkSales(const SalesCheckInput& in, const SalesCheckOptions& o) {
         ++counts[static_cast<std::size_t>(p)];
     };
 
-    const double earliest = serialFromCivil({1900, 1, 1});
-    const double latest = o.read.currentYear > 0 ? serialFromCivil({o.read.currentYear + 2, 1, 1})
-                                                 : std::numeric_limits<double>::infinity();
     std::vector<char> readable(n, 0);  // date and price usable
     std::vector<SaleProblem> dropFor(n, SaleProblem::BlankDate);
+    for (std::size_t i = 0; i < n; ++i) readable[i] = r.skipped[i] ? 0 : 1;
+    // The first problem of a row is the reason it is dropped (date before price).
+    const auto drop = [&](std::size_t i, SaleProblem p) {
+        if (readable[i]) dropFor[i] = p;
+        readable[i] = 0;
+    };
+    std::vector<char> dateListed(n, 0);
+    for (const CellIssue& c : dates.issues) {
+        dateListed[c.index] = 1;
+        list(c.index, o.datesName, c.problem, shown(in.dates[c.index], true), c.detail);
+        drop(c.index, c.problem);  // an implausible date is left out of the check's used rows
+    }
+    std::vector<char> priceListed(n, 0);
+    for (const CellIssue& c : prices.issues) {
+        priceListed[c.index] = 1;
+        list(c.index, o.pricesName, c.problem, shown(in.prices[c.index], false), c.detail);
+        drop(c.index, c.problem);
+    }
     for (std::size_t i = 0; i < n; ++i) {
         if (r.skipped[i]) continue;
-        bool ok = true;
-        // Date.
-        const RawValue& d = in.dates[i];
-        double serial = kNaN;
-        if (d.kind == RawValue::Kind::Number) {
-            serial = d.number;
-        } else {
-            const DateText t = readDateText(d.kind == RawValue::Kind::Text ? d.text : std::string(), r.dateOrder);
-            if (t.ok()) {
-                serial = t.serial;
-            } else {
-                const SaleProblem p = dateProblem(t.status);
-                list(i, o.datesName, p, shown(d, true),
-                     p == SaleProblem::BlankDate ? "no date: the sale cannot be placed in a period" : t.message);
-                if (ok) dropFor[i] = p;
-                ok = false;
-            }
-        }
-        if (ok) {
-            if (!std::isfinite(serial) || serial < earliest || serial >= latest) {
-                const std::string when = isUsableSerial(serial) ? isoDate(serial) : numberText(serial);
-                list(i, o.datesName, SaleProblem::ImplausibleDate, shown(d, true),
-                     o.read.currentYear > 0
-                         ? fmt::format("{} lies before 1900 or after {}", when, o.read.currentYear + 1)
-                         : fmt::format("{} lies before 1900", when));
-                dropFor[i] = SaleProblem::ImplausibleDate;
-                ok = false;
-            } else {
-                r.date[i] = serial;
-            }
-        }
-        // Price.
-        const RawValue& p = in.prices[i];
-        double price = kNaN;
-        SaleProblem priceProblem = SaleProblem::BlankPrice;
-        std::string priceDetail;
-        if (p.kind == RawValue::Kind::Number) {
-            price = p.number;
-        } else if (p.kind == RawValue::Kind::Text) {
-            const NumberText t = readNumberText(p.text, o.read.numbers);
-            if (t.ok()) price = t.value;
-            else if (t.status == NumberTextStatus::Ambiguous) priceProblem = SaleProblem::AmbiguousNumber;
-            else if (t.status == NumberTextStatus::Unreadable) priceProblem = SaleProblem::UnreadablePrice;
-            priceDetail = t.message;
-        }
-        if (std::isfinite(price) && price <= 0) {
-            priceProblem = SaleProblem::NonPositivePrice;
-            priceDetail = "a sale price must be more than 0";
-            price = kNaN;
-        }
-        if (std::isnan(price)) {
-            if (priceProblem == SaleProblem::BlankPrice) priceDetail = "no price (a dash or an empty cell)";
-            list(i, o.pricesName, priceProblem, shown(p, false), priceDetail);
-            if (ok) dropFor[i] = priceProblem;
-            ok = false;
-        } else {
-            r.price[i] = price;
-        }
+        r.date[i] = dateListed[i] ? kNaN : dates.value[i];
+        r.price[i] = priceListed[i] ? kNaN : prices.value[i];
         // Id and segment labels (blank ones are listed; the row stays).
         if (!in.ids.empty()) {
-            r.idKeys[i] = keyOf(in.ids[i]);
+            r.idKeys[i] = keyOf(in.ids[i], o.cleanLabels);
             if (r.idKeys[i].empty())
                 list(i, o.idsName, SaleProblem::BlankId, shown(in.ids[i], false),
                      "no id: the row is used, but cannot be checked for duplicates or paired");
         }
         for (std::size_t k = 0; k < in.segments.size(); ++k) {
-            const std::string key = keyOf(in.segments[k][i]);
+            const std::string key = keyOf(in.segments[k][i], o.cleanLabels);
             if (k > 0) r.segmentKeys[i] += '\x1f';
             r.segmentKeys[i] += key;
             if (key.empty())
                 list(i, segNames[k], SaleProblem::BlankSegment, shown(in.segments[k][i], false),
                      "no label: the sale belongs to no segment of this column");
         }
-        readable[i] = ok ? 1 : 0;
     }
 
     // Duplicates and conflicting prices (only with ids).
@@ -317,15 +371,15 @@ SalesCheck checkSales(const SalesCheckInput& in, const SalesCheckOptions& o) {
                 dropFor[i] = SaleProblem::DuplicateSale;
                 readable[i] = 0;
             } else if (dup.mark[i] == DuplicateMark::Conflict) {
-                std::string rows, prices;
+                std::string rows, amounts;
                 for (std::size_t j : conflictRows[dup.firstOf[i]]) {
                     rows += fmt::format("{}{}", rows.empty() ? "" : ", ", o.firstRowNumber + j);
-                    prices += fmt::format("{}{}", prices.empty() ? "" : ", ", numberText(r.price[j]));
+                    amounts += fmt::format("{}{}", amounts.empty() ? "" : ", ", numberText(r.price[j]));
                 }
                 list(i, o.pricesName, SaleProblem::ConflictingPrices, shown(in.prices[i], false),
                      fmt::format("id {} sold on {} at different prices ({}) in rows {}: none is used "
                                  "until the source is fixed",
-                                 shown(in.ids[i], false), isoDate(r.date[i]), prices, rows));
+                                 shown(in.ids[i], false), isoDate(r.date[i]), amounts, rows));
                 dropFor[i] = SaleProblem::ConflictingPrices;
                 readable[i] = 0;
             }

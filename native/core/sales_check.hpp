@@ -102,6 +102,9 @@ struct SalesCheckOptions {
     OutlierOptions outliers;
     std::size_t firstRowNumber = 1;  // the number the first data row gets (1 + header rows)
     std::string datesName = "dates", pricesName = "prices", idsName = "ids";
+    // Ids and segment labels compared by their label keys (label_text.hpp: "AB-12 " = "ab-12");
+    // false: as written, blanks at both ends ignored (a number cell as its key text).
+    bool cleanLabels = true;
 
     void validate() const;
 };
@@ -138,5 +141,38 @@ struct SalesCheck {
 };
 
 SalesCheck checkSales(const SalesCheckInput& input, const SalesCheckOptions& options);
+
+// ---- The first step of the check, shared with the index functions' cell conversion -------
+
+// A cell of a date or price column that could not be read, or (ImplausibleDate) was read but
+// is doubtful as a sale date.
+struct CellIssue {
+    std::size_t index = 0;  // position in the column
+    SaleProblem problem = SaleProblem::UnreadableDate;
+    std::string detail;     // what is wrong and, for texts, what is accepted
+};
+
+struct ColumnReading {
+    std::vector<double> value;      // the date serial or number; NaN where none was read
+    std::vector<CellIssue> issues;  // in row order; an ImplausibleDate keeps its value
+    DateOrder dateOrder = DateOrder::Unknown;  // dates: the order the texts were read in
+    std::vector<std::string> notes;  // dates: the order taken from the column, or a conflict
+};
+
+// A date column read as the sales check reads it: a number is a date serial (day 0 =
+// 1899-12-30); a text is read by readDateText in the order of `o` or, when that gives none and
+// o.inferOrder, the order the column's texts show (inferDateOrder). Blank, unreadable, two-digit
+// years, no such date, ambiguous: value NaN and an issue. A number that is no date serial
+// (before 1583 or after 9999) is an unreadable date. A date before 1900 or after the end of the
+// year after o.currentYear keeps its value and is an ImplausibleDate issue. Rows with skip[i]
+// set (skip may be empty) are not read (NaN, no issue) and take no part in the order.
+// firstRowNumber: the number the notes give row 0.
+ColumnReading readDateColumn(const std::vector<RawValue>& cells, const SalesReadOptions& o,
+                             const std::vector<char>& skip, std::size_t firstRowNumber);
+// A price column: a number as it is, a text by readNumberText. Blank (also a lone dash),
+// unreadable, ambiguous: value NaN and an issue; a price of 0 or less keeps its value and is
+// an issue.
+ColumnReading readPriceColumn(const std::vector<RawValue>& cells, const NumberFormat& numbers,
+                              const std::vector<char>& skip);
 
 }  // namespace lintel

@@ -169,10 +169,14 @@ class CalcTest(SheetCalls, unittest.TestCase):
         cells = self.array("F120:J150", f"=INDEXMEDIAN(A1:A{n};B1:B{n};;;;Q1:R2)")
         self.assertEqual(cells[0], ["period", "index", "sales", "lower", "upper"])
         # header row "date"/"price" without header=1 is dropped with reasons; notes list them
+        # and name the row as a likely header
         labels = [r[0] for r in cells[25:29]]
         self.assertEqual(labels[0], "rows used")
         self.assertEqual(cells[25][1], float(n - 1))
-        self.assertIn("dropped: blank or non-date date", labels)
+        self.assertIn("dropped: unreadable date", labels)
+        warning = [r[1] for r in cells[25:30] if r[0] == "warning"][0]
+        self.assertTrue(warning.startswith('unreadable date (1 row), first row 1: "date" is not a date'), warning)
+        self.assertTrue(warning.endswith("(a header row? add header=1 to the options)"), warning)
         cells = self.array("F160:J161", f'=INDEXMEDIAN(A1:A{n};B1:B{n};;;;"header=1; titles=1")')
         self.assertEqual(cells[1][1], 100.0)
 
@@ -239,10 +243,10 @@ class BadInputTest(SheetCalls, unittest.TestCase):
         self.assertEqual(cells[0][:3], [44927.0, 100.0, 2.0])
         notes = {r[0]: r[1] for r in cells[1:] if isinstance(r[0], str) and r[0]}
         self.assertEqual(notes["rows used"], 2.0)
-        self.assertEqual(notes["dropped: blank or non-numeric price"], 1.0)
+        self.assertEqual(notes["dropped: unreadable price"], 1.0)  # "n/a"
         self.assertEqual(notes["dropped: non-positive price"], 1.0)
         self.assertEqual(notes["dropped: empty row"], 1.0)
-        self.assertEqual(notes["dropped: blank or non-date date"], 1.0)
+        self.assertEqual(notes["dropped: unreadable date"], 1.0)  # "later"
 
     def test_error_cells_in_input(self):
         self.sheet.getCellRangeByName("S1").setFormula("=1/0")
@@ -274,7 +278,7 @@ class BadInputTest(SheetCalls, unittest.TestCase):
             '=INDEXMEDIAN(A1:A40;B1:B40;;"W")': 'Lintel: freq must be "M", "Q" or "Y", got "W"',
             '=INDEXMEDIAN(A1:A40;B1:B40;;;DATE(2030;1;1))': "Lintel: base 2030-01-01 lies outside the data (2023-01 .. 2023-12)",
             '=INDEXMEDIAN(A1:A40;B1:B40;;;;"minsales=x")': 'Lintel: option minsales must be a number, got "x"',
-            '=INDEXMEDIAN(A1:A40;B1:B40;;;;"trim=0.1")': 'Lintel: unknown option "trim" for INDEXMEDIAN (known: minsales, level, header, titles, notes)',
+            '=INDEXMEDIAN(A1:A40;B1:B40;;;;"trim=0.1")': 'Lintel: unknown option "trim" for INDEXMEDIAN (known: minsales, level, dateorder, header, titles, notes)',
             '=INDEXMEAN(A1:A40;B1:B40;;;;"trim=0.7")': "Lintel: option trim must lie in [0, 0.5), got 0.7",
             '=INDEXMEDIAN(A1:A40;B1:B40;;;;"level=95")': "Lintel: option level must lie between 0 and 1, got 95",
             '=INDEXMEDIAN(A1:B40;B1:B40)': "Lintel: dates must be one column, got 2 columns",

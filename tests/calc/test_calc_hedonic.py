@@ -369,7 +369,7 @@ class HedonicBadInputTest(SheetCalls, unittest.TestCase):
         cells = self.array("H1:L20", f'=INDEXHEDONIC(A1:A{n};B1:B{n};C1:F{n};;;;"log=1; categorical=2; notes=1")')
         notes = {r[0]: r[1] for r in cells if isinstance(r[0], str) and r[0]}
         self.assertEqual(notes["rows used"], float(n - 3))
-        self.assertEqual(notes["dropped: blank or non-numeric price"], 1.0)
+        self.assertEqual(notes["dropped: unreadable price"], 1.0)  # "n/a" is no number
         self.assertEqual(notes["dropped: log of a non-positive characteristic"], 2.0)
 
     def test_messages(self):
@@ -379,7 +379,7 @@ class HedonicBadInputTest(SheetCalls, unittest.TestCase):
             f"=INDEXHEDONIC(A1:A{n};B1:B{n};C1:F{n - 1})": f"Lintel: dates has {n} rows, characteristics has {n - 1}",
             f'=INDEXHEDONIC({r};;;;"log=1; colour=red")':
                 'Lintel: unknown option "colour" for INDEXHEDONIC (known: log, categorical, window, se, bias, '
-                "minsales, level, header, titles, notes)",
+                "minsales, level, dateorder, labels, header, titles, notes)",
             f'=HEDONICCOEFS({r};;;;"bias=kennedy")': 'Lintel: unknown option "bias" for HEDONICCOEFS',
             f'=INDEXHEDONIC({r};;;;"log=3")': "Lintel: log: column 3 (x3) holds text, not numbers",
             f'=INDEXHEDONIC({r};;;;"window=1")': "Lintel: window must be 0 (pooled) or at least 2 periods, got 1",

@@ -53,6 +53,12 @@ methods=median|mean
 """
 
 
+def include(n):
+    """The report's include for East: the segment compared cleaned, each sale used once."""
+    return (f'ISSEGMENT($Sales.D2:D{n};"East")*SALESCHECK($Sales.A2:A{n};$Sales.B2:B{n};$Sales.C2:C{n};;;;'
+            '"output=use; labels=clean")')
+
+
 class ReportTest(unittest.TestCase):
     def setUp(self):
         self.doc = office.new_calc()
@@ -104,14 +110,18 @@ class ReportTest(unittest.TestCase):
         self.assertEqual(table.Rows.Count, 12)
         # (the API shows array formulas in braces with "," separators)
         self.assertEqual(table.getArrayFormula(),
-                         '{=INDEXMEDIAN($Sales.$A$2:$A$901,$Sales.$B$2:$B$901,($Sales.$D$2:$D$901="East"),$B$87,$B$88,"level="&$B$89)}')
+                         '{=INDEXMEDIAN($Sales.$A$2:$A$901,$Sales.$B$2:$B$901,ISSEGMENT($Sales.$D$2:$D$901,"East")*'
+                         'SALESCHECK($Sales.$A$2:$A$901,$Sales.$B$2:$B$901,$Sales.$C$2:$C$901,,,,'
+                         '"output=use; labels=clean"),$B$87,$B$88,"level="&$B$89)}')
         self.assertTrue(self.named("Lintel_r1_all_mean").getArrayFormula().startswith("{=INDEXMEAN("))
         # The report's values equal the function called directly.
         direct = self.doc.Sheets
         direct.insertNewByName("Direct", direct.Count)
         d = direct.getByName("Direct")
         d.getCellRangeByName("A1:E12").setArrayFormula(
-            '=INDEXMEDIAN($Sales.A2:A901;$Sales.B2:B901;($Sales.D2:D901="East");"Q";DATE(2022;2;10);"level=0.9")')
+            '=INDEXMEDIAN($Sales.A2:A901;$Sales.B2:B901;ISSEGMENT($Sales.D2:D901;"East")*'
+            'SALESCHECK($Sales.A2:A901;$Sales.B2:B901;$Sales.C2:C901;;;;"output=use; labels=clean");'
+            '"Q";DATE(2022;2;10);"level=0.9")')
         self.doc.calculateAll()
         self.assertEqual([list(r) for r in table.getDataArray()], sheet_values(d, "A1:E12"))
         self.assertEqual(table.getCellByPosition(1, 4).getValue(), 100.0)  # 2022-Q1 is the base
@@ -148,15 +158,15 @@ class ReportTest(unittest.TestCase):
         self.assertIn("methods=median|mean", stored)
         # New sales pasted below the table, in 2024-Q1: update rewrites in place and grows.
         sales = self.doc.Sheets.getByName("Sales")
-        extra = [(float((pd.Timestamp("2024-02-15") - EPOCH).days), 200000.0 + i, "H900", "East", 90.0)
-                 for i in range(5)]
+        extra = [(float((pd.Timestamp("2024-02-15") - EPOCH).days), 200000.0 + i, f"H90{i}", "East", 90.0)
+                 for i in range(5)]  # five homes (one home sold five times on a day would be left out)
         last = len(self.rows)
         sales.getCellRangeByName(f"A{last + 1}:E{last + 5}").setDataArray(extra)
         status = self.build(mode="update", sheet="Report East")
         self.assertIn("13 periods (2021-Q1 .. 2024-Q1)", status)
         table = self.named("Lintel_r1_all_median")
         self.assertEqual(table.Rows.Count, 13)
-        self.assertEqual(table.getArrayFormula().count("$A$2:$A$906"), 1)
+        self.assertEqual(table.getArrayFormula().count("$A$2:$A$906"), 2)  # dates, and SALESCHECK's
         self.assertEqual(table.getCellByPosition(2, 12).getValue(), 5.0)
         self.assertEqual(self.doc.Sheets.Count, 2)  # updated in place, not added
 
@@ -349,7 +359,8 @@ class ReportTest(unittest.TestCase):
             # The function called directly on the same data (quarterly, base 2022-02-10).
             comp.getCellRangeByName("C1:G13").setArrayFormula(
                 f'=INDEXHEDONIC($Sales.A2:A{last};$Sales.B2:B{last};$Sales.E2:E{last};'
-                f'($Sales.D2:D{last}="East");"Q";DATE(2022;2;10);"level=0.9")')
+                f'ISSEGMENT($Sales.D2:D{last};"East")*SALESCHECK($Sales.A2:A{last};$Sales.B2:B{last};'
+                f'$Sales.C2:C{last};;;;"output=use; labels=clean");"Q";DATE(2022;2;10);"level=0.9; labels=clean")')
             comp.getCellRangeByName("B1").setFormula(
                 "=PRICEADJUST(350000;DATE(2021;5;14);DATE(2023;10;1);C1:C13;D1:D13)")
             self.doc.calculateAll()
@@ -449,7 +460,7 @@ class ReportTest(unittest.TestCase):
         d = direct.getByName("Direct")
         n = last + 3
         d.getCellRangeByName("A1:E37").setArrayFormula(
-            f'=INDEXMEDIAN($Sales.A2:A{n};$Sales.B2:B{n};($Sales.D2:D{n}="East");"M";DATE(2022;2;10);"level=0.9")')
+            f'=INDEXMEDIAN($Sales.A2:A{n};$Sales.B2:B{n};{include(n)};"M";DATE(2022;2;10);"level=0.9")')
         d.getCellRangeByName("F1:F37").setArrayFormula("=INDEXCHANGE(B1:B37;1)")
         self.doc.calculateAll()
         dec = sheet_values(d, "F36")[0][0]  # 2023-12 is the 36th month from 2021-01
@@ -461,13 +472,19 @@ class ReportTest(unittest.TestCase):
         # median with its base a year before December (2022-12).
         d.getCellRangeByName("G1:G37").setArrayFormula("=INDEXCHANGE(B1:B37;12)")
         d.getCellRangeByName("H1:L37").setArrayFormula(
-            f'=INDEXMEDIAN($Sales.A2:A{n};$Sales.B2:B{n};($Sales.D2:D{n}="East");"M";DATE(2022;12;1);"level=0.9")')
+            f'=INDEXMEDIAN($Sales.A2:A{n};$Sales.B2:B{n};{include(n)};"M";DATE(2022;12;1);"level=0.9")')
         self.doc.calculateAll()
         self.assertAlmostEqual(summary.getCellByPosition(5, 1).getValue(), sheet_values(d, "G36")[0][0], places=9)
         self.assertAlmostEqual(summary.getCellByPosition(6, 1).getValue(), sheet_values(d, "K36")[0][0] - 100, places=9)
         self.assertAlmostEqual(summary.getCellByPosition(7, 1).getValue(), sheet_values(d, "L36")[0][0] - 100, places=9)
         # Sales in the month and the median price of December's East sales.
-        dec_prices = [r[1] for r in self.rows[1:] if r[3] == "East" and
+        # (the rows SALESCHECK keeps: the generated ids repeat, and some sell twice on a day)
+        d.getCellRangeByName(f"N1:N{n - 1}").setArrayFormula(
+            f'=SALESCHECK($Sales.A2:A{n};$Sales.B2:B{n};$Sales.C2:C{n};;;;"output=use; labels=clean")')
+        self.doc.calculateAll()
+        use = [r[0] for r in sheet_values(d, f"N1:N{n - 1}")]
+        rows = self.rows[1:] + [tuple(r) for r in sales.getCellRangeByName(f"A{last + 1}:E{last + 3}").getDataArray()]
+        dec_prices = [r[1] for r, u in zip(rows, use) if u == 1 and r[3] == "East" and
                       (EPOCH + pd.Timedelta(days=r[0])).strftime("%Y-%m") == "2023-12"]
         self.assertEqual(summary.getCellByPosition(8, 1).getValue(), len(dec_prices))
         self.assertEqual(summary.getCellByPosition(2, 1).getValue(), float(np.median(dec_prices)))

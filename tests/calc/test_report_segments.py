@@ -5,7 +5,8 @@ that file's docstring): 12,000 sales over 2015-01 .. 2025-12 in four districts a
 One build covers three districts x two types plus the whole market. Every figure of the market
 summary is checked against the Lintel functions called directly on the same sales, with the
 same options (the report's quoted measure is the hedonic time dummy, the first suitable of the
-measures chosen): the level, the change over a month and over a year (INDEXCHANGE), the sales
+measures chosen; the include is ISSEGMENT times SALESCHECK's use mask, as in the report): the
+level, the change over a month and over a year (INDEXCHANGE), the sales
 in the month, the band of the year change (the index with its base a year before the headline
 month), and the median price of the month (numpy on the same rows). The small charts share
 one value scale; the client pages export to a PDF of exactly two pages; the values copy holds
@@ -101,6 +102,11 @@ class SegmentReportTest(unittest.TestCase):
         sheets.insertNewByName("Direct", sheets.Count)
         d = sheets.getByName("Direct")
         rows = self.summary()
+        # The rows the report uses: SALESCHECK's use mask (each sale once; unreadable rows out).
+        check = f'SALESCHECK($Sales.A2:A{n};$Sales.B2:B{n};$Sales.C2:C{n};;;;"output=use; labels=clean")'
+        d.getCellRangeByName(f"ZZ1:ZZ{n - 1}").setArrayFormula("=" + check)
+        self.doc.calculateAll()
+        use = np.array([r[0] for r in sheet_values(d, f"ZZ1:ZZ{n - 1}")]) == 1
         date = pd.to_numeric(self.sales["date"], errors="coerce")
         month = (pd.Timestamp("1899-12-30") + pd.to_timedelta(date.fillna(0), unit="D")).dt.strftime("%Y-%m")
         dec = (month == "2025-12").to_numpy() & self.usable()
@@ -108,15 +114,15 @@ class SegmentReportTest(unittest.TestCase):
         for i, row in enumerate(rows[1:]):
             label = row[0]
             if label == "All sales":
-                include, mask = "", np.ones(len(self.sales), bool)
+                include, mask = check, np.ones(len(self.sales), bool)
             else:
                 dist, typ = label.split(", ")
-                include = f'($Sales.D2:D{n}="{dist}")*($Sales.E2:E{n}="{typ}")'
+                include = f'ISSEGMENT($Sales.D2:D{n};"{dist}")*ISSEGMENT($Sales.E2:E{n};"{typ}")*{check}'
                 mask = ((self.sales["district"] == dist) & (self.sales["type"] == typ)).to_numpy()
             c = 12 * i
             ref = lambda k, r0, r1: f"{col(c + k)}{r0}:{col(c + k)}{r1}"  # noqa: E731
             call = (f'=INDEXHEDONIC($Sales.A2:A{n};$Sales.B2:B{n};$Sales.D2:I{n};{include};"M";'
-                    '{base};"level=0.95; log=3")')
+                    '{base};"level=0.95; labels=clean; log=3")')
             d.getCellRangeByName(f"{col(c)}1:{col(c + 4)}132").setArrayFormula(call.format(base="DATE(2015;1;1)"))
             d.getCellRangeByName(ref(5, 1, 132)).setArrayFormula(f"=INDEXCHANGE({ref(1, 1, 132)};1)")
             d.getCellRangeByName(ref(6, 1, 132)).setArrayFormula(f"=INDEXCHANGE({ref(1, 1, 132)};12)")
@@ -134,7 +140,7 @@ class SegmentReportTest(unittest.TestCase):
             self.assertEqual(got["sales"], last[2], label)
             self.assertAlmostEqual(got["low"], last[10] - 100, places=9, msg=label)
             self.assertAlmostEqual(got["high"], last[11] - 100, places=9, msg=label)
-            prices = price[mask & dec]
+            prices = price[mask & dec & use]
             self.assertEqual(got["sales"], len(prices), label)
             self.assertEqual(got["median"], float(np.median(prices)), label)
             self.assertEqual(got["flags"], "thin" if len(prices) < 20 else "", label)

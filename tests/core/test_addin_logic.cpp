@@ -97,7 +97,7 @@ BOOST_AUTO_TEST_CASE(option_errors_name_the_key) {
                    args[5] = text("minsales=3; colour=red");
                    Call(*findFunctionByName("INDEXMEDIAN"), args, {});
                }) ==
-               "unknown option \"colour\" for INDEXMEDIAN (known: minsales, level, header, titles, notes)");
+               "unknown option \"colour\" for INDEXMEDIAN (known: minsales, level, dateorder, header, titles, notes)");
     BOOST_TEST(errorOf([] { meanOptions(text("minsales")); }) ==
                "option \"minsales\" has no value (write key=value)");
     BOOST_TEST(errorOf([] { meanOptions(text("level=1;level=2")); }) == "option \"level\" is given twice");

@@ -128,10 +128,11 @@ BOOST_AUTO_TEST_CASE(table_entries_have_the_fixed_names_and_argument_orders) {
                (std::vector<std::string>{"ids", "dates", "prices", "changed", "include", "options"}));
     BOOST_TEST(optionKeys("CHAINRS") ==
                (std::vector<std::string>{"method", "minhold", "maxrate", "chain", "init", "minsales",
-                                         "level", "header", "titles", "notes"}));
+                                         "level", "dateorder", "labels", "header", "titles", "notes"}));
     BOOST_TEST(optionKeys("RSPAIRS") ==
                (std::vector<std::string>{"method", "minhold", "maxrate", "chain", "init", "minsales",
-                                         "level", "freq", "base", "header", "titles", "notes"}));
+                                         "level", "freq", "base", "dateorder", "labels", "header", "titles",
+                                         "notes"}));
     for (const char* fn : {"CHAINRS", "RSPAIRS"}) {
         const FunctionSpec& f = *findFunctionByName(fn);
         BOOST_TEST(f.description.size() > 40u);
@@ -360,8 +361,12 @@ BOOST_AUTO_TEST_CASE(rspairs_freq_and_base_options) {
     // Bad values read by the same readers as CHAINRS's arguments.
     BOOST_TEST(messageOf(call("RSPAIRS", pairArgs(s, "freq=W"))) ==
                "Lintel: option freq must be \"M\", \"Q\" or \"Y\", got \"W\"");
+    // A date that cannot be read says the forms accepted.
     BOOST_TEST(messageOf(call("RSPAIRS", pairArgs(s, "base=soon"))) ==
-               "Lintel: option base must be a date, got \"soon\"");
+               "Lintel: option base must be a date, got \"soon\"; accepted: a date cell, 2024-03-15, "
+               "15/03/2024 or 03/15/2024 where day and month cannot be confused (set the date order "
+               "for the others; also with . or -), 15 March 2024, March 15, 2024; the year with four "
+               "digits; a time after the date is ignored");
     // base and freq are arguments of CHAINRS, not options.
     BOOST_TEST(messageOf(call("CHAINRS", chainArgs(s, "freq=Y"))).find("unknown option \"freq\" for CHAINRS") !=
                std::string::npos);
@@ -426,7 +431,7 @@ BOOST_AUTO_TEST_CASE(bad_input_messages) {
 
     BOOST_TEST(messageOf(call("CHAINRS", chainArgs(s, "colour=red"))) ==
                "Lintel: unknown option \"colour\" for CHAINRS (known: method, minhold, maxrate, "
-               "chain, init, minsales, level, header, titles, notes)");
+               "chain, init, minsales, level, dateorder, labels, header, titles, notes)");
     BOOST_TEST(messageOf(call("RSPAIRS", pairArgs(s, "method=ols"))) ==
                "Lintel: option method must be \"cs\", \"bmn\" or \"cs2\", got \"ols\"");
     BOOST_TEST(messageOf(call("CHAINRS", chainArgs(s, "chain=2"))) == "Lintel: option chain must be 1 or 0 (TRUE or FALSE), got \"2\"");

@@ -54,7 +54,8 @@ std::vector<Arg> sampleArgs(const FunctionSpec& f) {
         if (name == "dates" || name == "date") a.push_back(column(dates));
         else if (name == "prices") a.push_back(column(prices));
         else if (name == "ids") a.push_back(column(ids));
-        else if (name == "strata") a.push_back(column(strata));
+        else if (name == "strata" || name == "labels") a.push_back(column(strata));
+        else if (name == "values") a.push_back(text("flat"));
         else if (name == "characteristics") {
             r.rows = n;
             r.cols = 2;

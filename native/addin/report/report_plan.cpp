@@ -334,6 +334,13 @@ std::string Planner::includeExpression(const Segment& seg) {
     }
     for (const auto& [col, value] : seg.match)
         expr += (expr.empty() ? "" : "*") + matchTerm(col, {value});
+    // With ids, SALESCHECK's use mask: a sale entered twice counts once, conflicting prices
+    // and unreadable rows are left out.
+    if (idCol_ >= 0 && haveFunction("SALESCHECK"))
+        expr += (expr.empty() ? "" : "*") +
+                addin::formulaCall(addin::functionSpec("SALESCHECK"),
+                                   {{"dates", dates_}, {"prices", prices_}, {"ids", idRange_},
+                                    {"options", formulaText("output=use; labels=clean")}});
     return expr;
 }
 
@@ -354,6 +361,8 @@ void Planner::findScopeAndSegments() {
 
     CallContext ctx;
     ctx.dateOffset = d_.dateOffset;
+    ctx.dateOrder = d_.dateOrder;
+    ctx.numbers = d_.numbers;
     long lo = LONG_MAX, hi = LONG_MIN;
     struct Combo {
         std::size_t sales = 0;
@@ -363,7 +372,7 @@ void Planner::findScopeAndSegments() {
     std::map<std::vector<std::string>, Combo> combos;
     for (std::size_t r = 1; r < d_.cells.rows; ++r) {
         const double date = addin::cellDate(d_.cells.at(r, static_cast<std::size_t>(dateCol_)), ctx);
-        const double price = addin::cellNumber(d_.cells.at(r, static_cast<std::size_t>(priceCol_)));
+        const double price = addin::cellNumber(d_.cells.at(r, static_cast<std::size_t>(priceCol_)), ctx.numbers);
         if (!isUsableSerial(date) || !(price > 0)) continue;
         bool keep = true;
         for (const auto& [c, keys] : scope) {
@@ -570,6 +579,9 @@ void Planner::segmentSection(std::size_t si, int row) {
         mc.width = static_cast<int>(fn.width());
         mc.rows = Ts;
         std::string opts = "\"level=\"&" + levelRef_;
+        // Strata, categories and ids compared cleaned, as the segment.
+        if (m == Method::Mix || m == Method::Hedonic || m == Method::ReferenceHome || m == Method::RepeatSales)
+            opts += "&" + formulaText("; labels=clean");
         auto adv = s_.advanced.find(methodKey(m));
         if (adv != s_.advanced.end() && !adv->second.empty()) opts += "&" + formulaText("; " + adv->second);
         std::vector<std::pair<std::string, std::string>> named = {

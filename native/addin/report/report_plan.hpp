@@ -28,6 +28,10 @@ struct SheetData {
     double dateOffset = 0.0;
     // Number format of the price column as the sheet shows it (its currency), for money cells.
     std::string priceFormat = "#,##0";
+    // The document's order of day and month and its separators, for dates and prices
+    // written as text (as the functions read them: cell_model.hpp CallContext).
+    DateOrder dateOrder = DateOrder::Unknown;
+    NumberFormat numbers;
 };
 
 struct CellWrite {

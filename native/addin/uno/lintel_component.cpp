@@ -13,12 +13,11 @@
 #include <com/sun/star/lang/XServiceName.hpp>
 #include <com/sun/star/sheet/XAddIn.hpp>
 #include <com/sun/star/uno/XComponentContext.hpp>
-#include <com/sun/star/util/Date.hpp>
 #include <org/lintel/XLintel.hpp>
 
 #include "diagnostics.hpp"
 #include "function_table.hpp"
-#include "periods.hpp"
+#include "locale_facts.hpp"
 #include "uno_cells.hpp"
 
 namespace css = com::sun::star;
@@ -96,15 +95,7 @@ private:
     }
 
     static CallContext context(const css::uno::Reference<css::beans::XPropertySet>& props) {
-        CallContext ctx;
-        try {
-            css::util::Date d;
-            if (props.is() && (props->getPropertyValue("NullDate") >>= d))
-                ctx.dateOffset = lintel::serialFromCivil({d.Year, d.Month, d.Day});
-        } catch (...) {
-            // Keep the standard null date 1899-12-30.
-        }
-        return ctx;
+        return documentContext(props);  // never throws
     }
 
     // Reading the arguments, running the function and writing the result each fail in their
@@ -143,6 +134,7 @@ private:
 }  // namespace
 
 extern "C" SAL_DLLPUBLIC_EXPORT css::uno::XInterface* org_lintel_LintelFunctions_get_implementation(
-    css::uno::XComponentContext*, css::uno::Sequence<css::uno::Any> const&) {
+    css::uno::XComponentContext* ctx, css::uno::Sequence<css::uno::Any> const&) {
+    rememberOfficeContext(ctx);
     return cppu::acquire(new LintelAddIn());
 }

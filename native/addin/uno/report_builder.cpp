@@ -6,6 +6,7 @@
 // The layout itself is planned without UNO (report/report_plan.cpp); this file reads the
 // sales table, applies the plan, makes the charts and keeps the settings in the document.
 #include "report_builder.hpp"
+#include "locale_facts.hpp"
 
 #include <cppuhelper/implbase2.hxx>
 #include <cppuhelper/supportsservice.hxx>
@@ -393,6 +394,9 @@ report::SheetData readSalesTable(const Reference<css::sheet::XSpreadsheetDocumen
     if (!cells) throw InputError("the sales table could not be read");
     report::SheetData d;
     d.dateOffset = documentDateOffset(doc);
+    const CallContext facts = documentContext(Reference<css::beans::XPropertySet>(doc, UNO_QUERY));
+    d.dateOrder = facts.dateOrder;
+    d.numbers = facts.numbers;
     d.sheet = sheetName;
     d.firstRow = a.StartRow;
     d.firstCol = a.StartColumn;
@@ -1183,5 +1187,6 @@ private:
 
 extern "C" SAL_DLLPUBLIC_EXPORT css::uno::XInterface* org_lintel_ReportBuilder_get_implementation(
     css::uno::XComponentContext* ctx, css::uno::Sequence<css::uno::Any> const&) {
+    lintel::addin::rememberOfficeContext(ctx);
     return cppu::acquire(new lintel::addin::ReportBuilder(ctx));
 }

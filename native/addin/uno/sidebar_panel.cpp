@@ -68,6 +68,8 @@
 
 #include "diagnostics.hpp"
 #include "inputs.hpp"
+#include "label_text.hpp"
+#include "locale_facts.hpp"
 #include "periods.hpp"
 #include "report_builder.hpp"
 #include "report_settings.hpp"
@@ -432,17 +434,35 @@ private:
         segmentColumn_ = selectedOne("lstSegCol", withNone());
         segmentValues_.clear();
         const int c = headerIndex(segmentColumn_);
+        std::vector<std::string> shown;
         if (c >= 0) {
-            std::set<std::string> distinct;
-            for (std::size_t r = 1; r < data_.cells.rows && distinct.size() < 500; ++r) {
-                const std::string v = cellKey(data_.cells.at(r, static_cast<std::size_t>(c)));
-                if (!v.empty()) distinct.insert(v);
+            // Each cleaned value once, as its most frequent spelling, with its count
+            // ("Ellenford (412)"), in alphabetical order; the report compares them cleaned
+            // (ISSEGMENT), so "Ellenford " and "ellenford" are counted here too.
+            std::vector<std::string> column;
+            column.reserve(data_.cells.rows);
+            for (std::size_t r = 1; r < data_.cells.rows; ++r)
+                column.push_back(cellKey(data_.cells.at(r, static_cast<std::size_t>(c))));
+            LabelGroups g = groupLabels(column);
+            std::sort(g.groups.begin(), g.groups.end(), [](const LabelGroup& a, const LabelGroup& b) {
+                return a.display < b.display;
+            });
+            if (g.groups.size() > 500) g.groups.resize(500);
+            for (const LabelGroup& l : g.groups) {
+                segmentValues_.push_back(l.display);
+                shown.push_back(fmt::format("{} ({})", l.display, l.count));
             }
-            segmentValues_.assign(distinct.begin(), distinct.end());
         }
-        fill("lstSegVal", segmentValues_);
+        fill("lstSegVal", shown);
         for (const auto& f : settings_.segment)
-            if (f.column == segmentColumn_) select("lstSegVal", segmentValues_, f.values);
+            if (f.column == segmentColumn_) {
+                // Values saved with another spelling are found by their key.
+                std::vector<std::string> chosen;
+                for (const auto& v : f.values)
+                    for (const auto& item : segmentValues_)
+                        if (labelKey(item) == labelKey(v)) chosen.push_back(item);
+                select("lstSegVal", segmentValues_, chosen);
+            }
     }
 
     // The values chosen for the current segment column go into the settings.
@@ -461,6 +481,7 @@ private:
         std::set<long> keys;
         CallContext ctx;
         ctx.dateOffset = data_.dateOffset;
+        ctx.dateOrder = data_.dateOrder;
         if (dc >= 0)
             for (std::size_t r = 1; r < data_.cells.rows; ++r) {
                 const double d = cellDate(data_.cells.at(r, static_cast<std::size_t>(dc)), ctx);
@@ -664,5 +685,6 @@ private:
 
 extern "C" SAL_DLLPUBLIC_EXPORT css::uno::XInterface* org_lintel_PanelFactory_get_implementation(
     css::uno::XComponentContext* ctx, css::uno::Sequence<css::uno::Any> const&) {
+    lintel::addin::rememberOfficeContext(ctx);
     return cppu::acquire(new lintel::addin::PanelFactory(ctx));
 }

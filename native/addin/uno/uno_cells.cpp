@@ -156,6 +156,7 @@ Range readColumn(const ColumnSource& s, std::size_t rows, const char* name) {
     r.rows = rows;
     r.cells.resize(rows * r.cols);
     r.scalar = s.extent.rows == 1 && s.extent.cols == 1;
+    r.sheetRow = static_cast<std::size_t>(s.address.StartRow) + 1;
     const std::size_t toRead = std::min(rows, s.extent.usedRows);
     if (toRead == 0) return r;
     const auto part = s.range->getCellRangeByPosition(0, 0, static_cast<sal_Int32>(r.cols) - 1,
