@@ -126,5 +126,6 @@ std::vector<FunctionSpec> arithmeticFunctions();
 std::vector<FunctionSpec> analyticsFunctions();
 std::vector<FunctionSpec> hedonicFunctions();
 std::vector<FunctionSpec> repeatSalesFunctions();
+std::vector<FunctionSpec> backtestFunctions();
 
 }  // namespace lintel::addin
