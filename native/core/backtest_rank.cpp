@@ -27,6 +27,8 @@ std::size_t draw(std::mt19937_64& g, std::size_t n) {
 }
 
 std::string pct(double x) { return hasValue(x) ? fmt::format("{:.1f} %", x) : std::string("n/a"); }
+// Revisions are small: two decimals.
+std::string rev(double x) { return hasValue(x) ? fmt::format("{:.2f} %", x) : std::string("n/a"); }
 
 struct Comparison {
     const std::vector<MethodScore>& ms;
@@ -170,7 +172,7 @@ Ranking rankMethods(const std::vector<MethodScore>& ms, const std::vector<std::s
     out.recommended = static_cast<int>(w);
     const MethodScore& W = ms[w];
     const std::string revText =
-        hasValue(W.meanRevision) ? fmt::format(", revises {}", pct(W.meanRevision)) : std::string();
+        hasValue(W.meanRevision) ? fmt::format(", revises {}", rev(W.meanRevision)) : std::string();
     if (ranked.size() == 1)
         out.reason[w] = fmt::format("the only method that could be judged: median error {}{}",
                                     pct(c.med[w]), revText);
@@ -180,8 +182,8 @@ Ranking rankMethods(const std::vector<MethodScore>& ms, const std::vector<std::s
     else if (first.stable.size() < first.accurate.size())
         out.reason[w] = fmt::format(
             "as accurate as {} within noise (median error {} vs {}) and revises less ({} vs {})",
-            ms[first.best].label, pct(c.med[w]), pct(c.med[first.best]), pct(W.meanRevision),
-            pct(ms[first.best].meanRevision));
+            ms[first.best].label, pct(c.med[w]), pct(c.med[first.best]), rev(W.meanRevision),
+            rev(ms[first.best].meanRevision));
     else
         out.reason[w] = fmt::format(
             "as accurate as {} within noise (median error {} vs {}), fewer periods without a "
@@ -197,7 +199,7 @@ Ranking rankMethods(const std::vector<MethodScore>& ms, const std::vector<std::s
                                         pct(c.med[m]), pct(c.med[w]));
         else if (!contains(first.stable, m))
             out.reason[m] = fmt::format("as accurate within noise, but revises more than {} ({} vs {})",
-                                        W.label, pct(S.meanRevision), pct(W.meanRevision));
+                                        W.label, rev(S.meanRevision), rev(W.meanRevision));
         else if (!contains(first.covered, m))
             out.reason[m] = fmt::format(
                 "as accurate and stable, but more periods without a value than {} ({:.0f} % vs "

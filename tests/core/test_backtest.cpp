@@ -279,7 +279,7 @@ BOOST_AUTO_TEST_CASE(rule_a_flat_line_never_wins_on_smoothness) {
     BOOST_TEST(r.rank[1] == 1);
     BOOST_TEST(r.rank[0] == 2);
     // Median of 0.05 + 0.0002 i over i = 0..199: 0.05 + 0.0002 * 99.5 = 0.0699 -> 7.0 %.
-    BOOST_TEST(r.reason[1] == "predicts held-out resales best (median error 7.0 %), revises 2.0 %");
+    BOOST_TEST(r.reason[1] == "predicts held-out resales best (median error 7.0 %), revises 2.00 %");
     BOOST_TEST(r.reason[0] == "less accurate than good: median error 22.0 % vs 7.0 %");
 }
 
@@ -291,8 +291,8 @@ BOOST_AUTO_TEST_CASE(rule_ties_on_accuracy_go_to_revision_then_missing_periods) 
     BOOST_TEST(r.recommended == 1);
     BOOST_TEST(r.reason[1] ==
                "as accurate as a within noise (median error 7.0 % vs 7.0 %) and revises less "
-               "(0.3 % vs 1.0 %)");
-    BOOST_TEST(r.reason[0] == "as accurate within noise, but revises more than b (1.0 % vs 0.3 %)");
+               "(0.30 % vs 1.00 %)");
+    BOOST_TEST(r.reason[0] == "as accurate within noise, but revises more than b (1.00 % vs 0.30 %)");
     // Revisions within 0.1 points count as equal: the fewer periods without a value decide.
     ms = {score("a", 0.05, 0.30, 0.10), score("b", 0.05, 0.35, 0.0)};
     ms[1].absError[0] += 0.001;
@@ -329,7 +329,7 @@ BOOST_AUTO_TEST_CASE(rule_who_is_not_ranked) {
     const Ranking r = rankMethods(ms, clusters(200), 1);
     BOOST_TEST(r.recommended == 0);
     BOOST_TEST(r.rank == std::vector<int>({1, 0, 0, 0}));
-    BOOST_TEST(r.reason[0] == "the only method that could be judged: median error 7.0 %, revises 0.0 %");
+    BOOST_TEST(r.reason[0] == "the only method that could be judged: median error 7.0 %, revises 0.00 %");
     BOOST_TEST(r.reason[1] ==
                "predicted only 50 % of the held-out resales another method predicted (periods "
                "without a value)");
