@@ -166,6 +166,10 @@ double backtestWork(const BacktestInput& in, const BacktestOptions& o) {
     double work = 0;
     for (const CandidateMethod& m : in.methods)
         work += estimates * bt_detail::estimateWork(in, m, s.rows.size(), T);
+    // The bootstrap of the rule: kBootstrapReps medians per method over about n / 2 resales.
+    if (in.methods.size() > 1)
+        work += 5.0 * kBootstrapReps * static_cast<double>(in.methods.size()) *
+                static_cast<double>(s.rows.size());
     return work;
 }
 
@@ -240,6 +244,8 @@ BacktestResult backtest(const BacktestInput& in, const BacktestOptions& o, Backt
         detail->logChange = h.y;
         detail->predicted.assign(in.methods.size(), std::vector<double>(h.size(), kNoValue));
         detail->revisions.assign(in.methods.size(), {});
+        detail->fullLog.assign(in.methods.size(),
+                               std::vector<double>(static_cast<std::size_t>(s.axis.count), kNoValue));
     }
 
     // Pairs of each fold, in order.
@@ -329,6 +335,10 @@ BacktestResult backtest(const BacktestInput& in, const BacktestOptions& o, Backt
         if (detail) {
             detail->predicted[mi] = predicted;
             detail->revisions[mi] = std::move(revs);
+            for (int t = 0; t < s.axis.count; ++t)
+                if (hasValue(values[static_cast<std::size_t>(t)]))
+                    detail->fullLog[mi][static_cast<std::size_t>(t)] =
+                        std::log(values[static_cast<std::size_t>(t)]);
         }
     }
 

@@ -36,30 +36,39 @@ struct Comparison {
     std::vector<std::vector<std::size_t>> byCluster;  // common pairs grouped by property
     std::vector<double> med;                          // 100 * median |e| over common, per method
     unsigned long long seed;
-    std::map<std::pair<std::size_t, std::size_t>, double> seCache;
+    std::vector<std::vector<double>> boot;            // per method: its median in each replicate
 
-    // Standard error of med[a] - med[b]: a bootstrap that redraws properties (all pairs of a
-    // drawn property come along), the same draws for every comparison.
-    double se(std::size_t a, std::size_t b) {
-        const auto key = std::make_pair(std::min(a, b), std::max(a, b));
-        if (auto it = seCache.find(key); it != seCache.end()) return it->second;
+    // The bootstrap that redraws properties (all pairs of a drawn property come along): the
+    // same kBootstrapReps draws for every method, so med[a] - med[b] is compared replicate by
+    // replicate.
+    void bootstrap(const std::vector<std::size_t>& ranked) {
+        boot.assign(ms.size(), {});
+        for (std::size_t m : ranked) boot[m].reserve(kBootstrapReps);
         std::mt19937_64 gen(seed ^ 0x5DEECE66DULL);
         const std::size_t K = byCluster.size();
-        std::vector<double> ea, eb, diffs;
-        diffs.reserve(kBootstrapReps);
+        std::vector<std::size_t> pairs;
+        std::vector<double> e;
         for (int rep = 0; rep < kBootstrapReps; ++rep) {
-            ea.clear();
-            eb.clear();
-            for (std::size_t k = 0; k < K; ++k)
-                for (std::size_t i : byCluster[draw(gen, K)]) {
-                    ea.push_back(ms[a].absError[i]);
-                    eb.push_back(ms[b].absError[i]);
-                }
-            diffs.push_back(100 * (stats::median(ea) - stats::median(eb)));
+            pairs.clear();
+            for (std::size_t k = 0; k < K; ++k) {
+                const auto& c = byCluster[draw(gen, K)];
+                pairs.insert(pairs.end(), c.begin(), c.end());
+            }
+            for (std::size_t m : ranked) {
+                e.resize(pairs.size());
+                for (std::size_t j = 0; j < pairs.size(); ++j) e[j] = ms[m].absError[pairs[j]];
+                boot[m].push_back(100 * stats::median(e));
+            }
         }
+    }
+
+    // Standard error of med[a] - med[b] over the replicates.
+    double se(std::size_t a, std::size_t b) const {
+        std::vector<double> diffs(boot[a].size());
+        for (std::size_t r = 0; r < diffs.size(); ++r) diffs[r] = boot[a][r] - boot[b][r];
         std::size_t used = 0;
         const double s = stats::sampleSd(diffs, &used);
-        return seCache[key] = hasValue(s) ? s : 0.0;
+        return hasValue(s) ? s : 0.0;
     }
 };
 
@@ -131,6 +140,7 @@ Ranking rankMethods(const std::vector<MethodScore>& ms, const std::vector<std::s
         for (std::size_t i : c.common) e.push_back(ms[m].absError[i]);
         c.med[m] = 100 * stats::median(e);
     }
+    if (ranked.size() > 1) c.bootstrap(ranked);
 
     // c. Round by round: the tie set on accuracy, then revision, then missing periods.
     struct Round {

@@ -9,6 +9,8 @@
 //                                     mean_rev, max_rev, volatility, missing, rank,
 //                                     recommended; the reasons go to stderr
 //   backtest_revisions <csv> [options] -> method (k), removed, period (start serial), percent
+//   backtest_indexes <csv> [options] -> period (start serial), log_<k> per method: ln I of the
+//                                     estimate on all sales (any base), empty without a value
 // csv: id, date, price[, changed][, include]; characteristics in columns named c_<name>
 //      (numeric unless text), strata in columns named s_<name>.
 // Options: freq folds seed revisions minsales minhold maxrate as INDEXBACKTEST, and
@@ -136,6 +138,20 @@ const refcli::Register regRevisions("backtest_revisions", [](const auto& t, cons
             num(v.percent);
             std::printf("\n");
         }
+    return 0;
+});
+
+const refcli::Register regIndexes("backtest_indexes", [](const auto& t, const auto& a) {
+    const Run run = prepare(t, a);
+    lintel::BacktestDetail d;
+    const lintel::BacktestResult r = lintel::backtest(run.in, run.o, &d);
+    std::vector<std::string> names = {"period"};
+    std::vector<std::vector<double>> cols = {refcli::periodStarts(r.axis)};
+    for (std::size_t m = 0; m < d.fullLog.size(); ++m) {
+        names.push_back("log_" + std::to_string(m + 1));
+        cols.push_back(d.fullLog[m]);
+    }
+    refcli::printColumns(names, cols);
     return 0;
 });
 
