@@ -293,7 +293,7 @@ BOOST_AUTO_TEST_CASE(rule_ties_on_accuracy_go_to_revision_then_missing_periods) 
                "as accurate as a within noise (median error 7.0 % vs 7.0 %) and revises less "
                "(0.30 % vs 1.00 %)");
     BOOST_TEST(r.reason[0] == "as accurate within noise, but revises more than b (1.00 % vs 0.30 %)");
-    // Revisions within 0.1 points count as equal: the fewer periods without a value decide.
+    // Revisions within 0.5 points count as equal: the fewer periods without a value decide.
     ms = {score("a", 0.05, 0.30, 0.10), score("b", 0.05, 0.35, 0.0)};
     ms[1].absError[0] += 0.001;
     r = rankMethods(ms, clusters(200), 1);

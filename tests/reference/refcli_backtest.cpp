@@ -11,6 +11,8 @@
 //   backtest_revisions <csv> [options] -> method (k), removed, period (start serial), percent
 //   backtest_indexes <csv> [options] -> period (start serial), log_<k> per method: ln I of the
 //                                     estimate on all sales (any base), empty without a value
+//   backtest_report <csv> [options] -> backtest_summary's table, an empty line, then
+//                                     backtest_indexes' table, from one run
 // csv: id, date, price[, changed][, include]; characteristics in columns named c_<name>
 //      (numeric unless text), strata in columns named s_<name>.
 // Options: freq folds seed revisions minsales minhold maxrate as INDEXBACKTEST, and
@@ -102,9 +104,7 @@ const refcli::Register regPairs("backtest_pairs", [](const auto& t, const auto& 
     return 0;
 });
 
-const refcli::Register regSummary("backtest_summary", [](const auto& t, const auto& a) {
-    const Run run = prepare(t, a);
-    const lintel::BacktestResult r = lintel::backtest(run.in, run.o);
+void printSummary(const lintel::BacktestResult& r) {
     std::printf("method,pairs,mdae,rmse,mean_rev,max_rev,volatility,missing,rank,recommended\n");
     for (std::size_t m = 0; m < r.methods.size(); ++m) {
         const auto& row = r.methods[m];
@@ -123,6 +123,21 @@ const refcli::Register regSummary("backtest_summary", [](const auto& t, const au
     }
     std::fprintf(stderr, "%s\n", r.summary().c_str());
     for (const auto& w : r.diag.warnings) std::fprintf(stderr, "warning: %s\n", w.c_str());
+}
+
+void printIndexes(const lintel::BacktestResult& r, const lintel::BacktestDetail& d) {
+    std::vector<std::string> names = {"period"};
+    std::vector<std::vector<double>> cols = {refcli::periodStarts(r.axis)};
+    for (std::size_t m = 0; m < d.fullLog.size(); ++m) {
+        names.push_back("log_" + std::to_string(m + 1));
+        cols.push_back(d.fullLog[m]);
+    }
+    refcli::printColumns(names, cols);
+}
+
+const refcli::Register regSummary("backtest_summary", [](const auto& t, const auto& a) {
+    const Run run = prepare(t, a);
+    printSummary(lintel::backtest(run.in, run.o));
     return 0;
 });
 
@@ -144,14 +159,17 @@ const refcli::Register regRevisions("backtest_revisions", [](const auto& t, cons
 const refcli::Register regIndexes("backtest_indexes", [](const auto& t, const auto& a) {
     const Run run = prepare(t, a);
     lintel::BacktestDetail d;
+    printIndexes(lintel::backtest(run.in, run.o, &d), d);
+    return 0;
+});
+
+const refcli::Register regReport("backtest_report", [](const auto& t, const auto& a) {
+    const Run run = prepare(t, a);
+    lintel::BacktestDetail d;
     const lintel::BacktestResult r = lintel::backtest(run.in, run.o, &d);
-    std::vector<std::string> names = {"period"};
-    std::vector<std::vector<double>> cols = {refcli::periodStarts(r.axis)};
-    for (std::size_t m = 0; m < d.fullLog.size(); ++m) {
-        names.push_back("log_" + std::to_string(m + 1));
-        cols.push_back(d.fullLog[m]);
-    }
-    refcli::printColumns(names, cols);
+    printSummary(r);
+    std::printf("\n");
+    printIndexes(r, d);
     return 0;
 });
 
