@@ -45,7 +45,7 @@ lintel::BacktestInput market(std::size_t n, std::size_t houses) {
     CharacteristicColumn cd{"district", {}, {}}, ct{"type", {}, {}}, ca{"area", {}, {}}, cg{"age", {}, {}};
     in.strata.resize(2);
     for (std::size_t i = 0; i < n; ++i) {
-        const std::size_t h = i < houses ? i : static_cast<std::size_t>(g.next() * houses);
+        const std::size_t h = i < houses ? i : static_cast<std::size_t>(g.next() * static_cast<double>(houses));
         const double d = first + std::floor(g.next() * days);
         const double month = (d - first) / 30.436875;
         in.id.push_back(fmt::format("H{:06d}", h));
