@@ -14,7 +14,7 @@ const std::vector<FunctionSpec>& functionTable() {
     static const std::vector<FunctionSpec> table = [] {
         std::vector<FunctionSpec> t;
         for (auto part : {rawIndexFunctions, arithmeticFunctions, hedonicFunctions, analyticsFunctions,
-                           repeatSalesFunctions, salesCheckFunctions})
+                           repeatSalesFunctions, salesCheckFunctions, backtestFunctions})
             for (auto& f : part()) t.push_back(std::move(f));
         return t;
     }();

@@ -127,5 +127,6 @@ std::vector<FunctionSpec> analyticsFunctions();
 std::vector<FunctionSpec> hedonicFunctions();
 std::vector<FunctionSpec> repeatSalesFunctions();
 std::vector<FunctionSpec> salesCheckFunctions();
+std::vector<FunctionSpec> backtestFunctions();
 
 }  // namespace lintel::addin

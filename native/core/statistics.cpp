@@ -81,12 +81,13 @@ Interval medianInterval(const std::vector<double>& sorted, double level) {
     // Coverage of [x_(j), x_(n+1-j)] is 1 - 2 P(B <= j-1), B ~ binomial(n, 1/2).
     boost::math::binomial dist(static_cast<double>(n), 0.5);
     const double alphaHalf = (1 - level) / 2;
-    std::size_t best = 0;
-    for (std::size_t j = 1; 2 * j <= n + 1; ++j) {
-        if (boost::math::cdf(dist, static_cast<double>(j - 1)) <= alphaHalf + 1e-12)
-            best = j;
-        else
-            break;
+    // The largest j in 1 .. (n + 1) / 2 with P(B <= j - 1) <= alpha / 2; the CDF rises with j,
+    // so a bisection finds it (0 when even j = 1 fails).
+    std::size_t best = 0, hi = (n + 1) / 2;
+    while (best < hi) {
+        const std::size_t j = best + (hi - best + 1) / 2;
+        if (boost::math::cdf(dist, static_cast<double>(j - 1)) <= alphaHalf + 1e-12) best = j;
+        else hi = j - 1;
     }
     if (best == 0) return {};
     return {sorted[best - 1], sorted[n - best]};

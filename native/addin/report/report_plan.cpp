@@ -222,7 +222,8 @@ private:
     int dateCol_ = -1, priceCol_ = -1, idCol_ = -1, changedCol_ = -1;
     std::vector<int> chars_, strata_;
     std::string homeCaption_;
-    int statusRow_ = 0;  // first method status row of the settings block  // formula describing the reference home (whole scope), or empty
+    int statusRow_ = 0;
+    bool backtestUsed_ = false;  // a segment's quoted measure comes from INDEXBACKTEST  // first method status row of the settings block  // formula describing the reference home (whole scope), or empty
     std::vector<Method> methods_, indexMethods_;
     std::vector<Segment> segments_;
     std::vector<std::size_t> scopeRows_;  // usable rows of the scope (data rows, 1-based)
@@ -716,12 +717,54 @@ void Planner::segmentSection(std::size_t si, int row) {
                   ? "compares the same homes sold twice"
                   : "the first measure the settings list";
     }
+    // Which measure to quote, measured on the segment's own sales: INDEXBACKTEST's
+    // recommended row (held-out resales predicted, revision, missing periods); the rule above
+    // when it cannot say (no resales, a method failing).
+    const bool backtest = s_.quote == "auto" && idCol_ >= 0 && K > 1 && haveFunction("INDEXBACKTEST");
+    std::string quotedFormula, whyFormula;
+    if (backtest) {
+        backtestUsed_ = true;
+        block(seg.key + "_backtest", "which measure to quote: " + seg.label);
+        const int btc = salesC + 2;
+        const addin::FunctionSpec& bt = addin::functionSpec("INDEXBACKTEST");
+        const int width = static_cast<int>(bt.width());
+        text(head - 1, btc, "Which measure to quote (INDEXBACKTEST on this segment's sales)", true);
+        text(head, btc, "Candidate", true);
+        for (int i = 0; i < K; ++i) {
+            const Method m = indexMethods_[static_cast<std::size_t>(i)];
+            std::string candidate = methodKey(m);
+            auto adv = s_.advanced.find(methodKey(m));
+            if (adv != s_.advanced.end() && !adv->second.empty()) candidate += " " + adv->second;
+            text(first + i, btc, candidate);
+        }
+        for (int h = 0; h < width; ++h)
+            text(head, btc + 1 + h, capitalised(bt.columns[static_cast<std::size_t>(h)].title), true);
+        std::vector<std::pair<std::string, std::string>> named = {
+            {"ids", idRange_}, {"dates", dates_}, {"prices", prices_}, {"include", include},
+            {"freq", freqRef_}, {"methods", localRange(first, btc, first + K - 1, btc)}};
+        if (!charsBlock_.empty()) named.emplace_back("characteristics", charsBlock_);
+        if (!strataBlock_.empty()) named.emplace_back("strata", strataBlock_);
+        if (!changedRange_.empty()) named.emplace_back("changed", changedRange_);
+        array(first, btc + 1, K, width, "=" + addin::formulaCall(bt, named));
+        for (int h = 0; h < width; ++h)
+            if (!bt.columns[static_cast<std::size_t>(h)].format.empty())
+                format(first, btc + 1 + h, K, 1, bt.columns[static_cast<std::size_t>(h)].format);
+        nameCells(first, btc + 1, K, width);
+        const std::string rec = localRange(first, btc + 10, first + K - 1, btc + 10);
+        const std::string reason = localRange(first, btc + 11, first + K - 1, btc + 11);
+        quotedFormula = fmt::format("=IFERROR(MATCH(1;{};0);{})", rec, quoted);
+        whyFormula = fmt::format("=IFERROR(INDEX({};MATCH(1;{};0));{})", reason, rec, formulaText(why));
+        helperCol_ = std::max(helperCol_, btc + width + 3);
+        block(seg.key + "_title", "");
+    }
     sc.quotedIndex = quoted;
     sc.quotedCell[0] = row + 2;
     sc.quotedCell[1] = 2;
-    number(row + 2, 2, quoted, "0");
+    if (backtest) formula(row + 2, 2, quotedFormula, "0");
+    else number(row + 2, 2, quoted, "0");
     formula(row + 2, 1, fmt::format("=INDEX({};1;{})", localRange(head, bc + 1, head, bc + K), cellRef(row + 2, 2)));
-    text(row + 3, 1, why);
+    if (backtest) formula(row + 3, 1, whyFormula);
+    else text(row + 3, 1, why);
     sc.reasonCell[0] = row + 3;
     sc.reasonCell[1] = 1;
     helperCol_ = std::max(helperCol_, salesC + 2);
@@ -832,7 +875,7 @@ void Planner::summary() {
         formula(r, 9, fmt::format("=TRIM(IF(IFERROR(INDEX({0};{1});0)<{2};\"thin \";\"\")&\"{3}\")", sales, at,
                                   thinRef_, headlineOffset_ ? "partial" : ""))
             .center = true;
-        formula(r, 10, fmt::format("={}", cellRef(sc.reasonCell[0], sc.reasonCell[1])));
+        formula(r, 10, fmt::format("={}", cellRef(sc.reasonCell[0], sc.reasonCell[1]))).shrink = true;
     }
     CellWrite f;
     f.kind = CellWrite::Kind::Format;
@@ -845,6 +888,10 @@ void Planner::summary() {
 
 std::string Planner::methodSentence() const {
     const std::string band = fmt::format("the band is the {:.0f} % confidence interval of the year's change", 100 * s_.level);
+    if (backtestUsed_)
+        return fmt::format("Method: each segment quotes the measure that best predicted resales of its own sales "
+                           "that it had not seen (Lintel's INDEXBACKTEST: accuracy first, then revision, then "
+                           "missing periods); changes are of that index between periods; {}.", band);
     if (s_.quote != "auto")
         return fmt::format("Method: every segment quotes the measure the report's settings choose ({}); changes are "
                            "of that index between periods; {}.", s_.quote, band);

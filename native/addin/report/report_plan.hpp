@@ -48,6 +48,7 @@ struct CellWrite {
     int mergeCols = 0;        // > 1: merge with the cells to its right (a text across the page)
     bool rule = false;        // a thin line below (headings)
     bool center = false;      // centred in the cell
+    bool shrink = false;      // the font shrinks to fit the cell (a long text in a narrow column)
     int block = -1;           // the block it belongs to (ReportPlan::blocks)
     std::string setting;      // an editable settings cell: the report setting it holds
                               // ("base", "level", "freq"); Update reads it back
