@@ -26,7 +26,7 @@ std::string seasonalText() {
 std::string realtimeText(const std::string& plainAlternative) {
     return "1 (with smooth): each period's value uses only the sales dated up to that period "
            "(the first two years are published together), so adding later sales never changes "
-           "a published value; the price is more noise and a later turn. Variances are "
+           "a published value; the cost: more noise, and turns show later. Variances are "
            "re-estimated once a year of periods. " + plainAlternative;
 }
 

@@ -29,7 +29,10 @@ Measures against the truth, per seed, then averaged over the seeds (min .. max b
   level root mean squared error of ln I_t against the true log index after removing their
         mean difference (so the base period's own error does not count), in percent;
   vol   standard deviation of the monthly log changes of the index / that of the truth;
-  cover share of months (base excluded) whose true index lies inside the 95 % band.
+  cover share of months (base excluded) whose true index lies inside the 95 % band, base
+        2015-01 (the first month: every band carries the base month's own error, and the
+        first month is where a smoothed level is least certain);
+  mid   the same with the base 2020-01 (the middle of the span).
 
 Run: /usr/bin/python3 tests/bench/thin_market_evidence.py --refcli build/tests/lintel_refcli
      [--seeds 10] [--chart docs/methods/smoothing-thin-segment.png]
@@ -123,7 +126,7 @@ def measures(table, truth):
     idx = table["index"].to_numpy(float)
     lo, hi = table.lower.to_numpy(float), table.upper.to_numpy(float)
     tr = truth[t]
-    base = int(np.flatnonzero(np.isfinite(idx) & (np.abs(idx - 100) < 1e-9))[0])
+    base = int(np.flatnonzero(np.isfinite(idx) & (np.abs(idx - 100) < 1e-9) & (lo == hi))[0])
     true_index = 100 * np.exp(tr - tr[base])
     have = np.isfinite(idx)
     yoy_err = []
@@ -155,6 +158,9 @@ METHODS = [
 ]
 
 
+MID = float((pd.Timestamp("2020-01-01") - pd.Timestamp("1899-12-30")).days)
+
+
 def run_seed(cli, seed, scenario):
     df, truth = make_data(seed, scenario)
     seg = (df.district == SEGMENT).to_numpy()
@@ -165,14 +171,15 @@ def run_seed(cli, seed, scenario):
                 frame = hedonic_frame(df, with_district=True, include=seg)
             else:
                 frame = hedonic_frame(df[seg])
-            tab = cli.run(command, frame, log=1, **opts)
+            opts = dict(log=1, **opts)
         else:
             s = df[seg]
             frame = pd.DataFrame({"id": s.property_id, "date": s.date, "price": s.price,
                                   "changed": s.renovated})
-            tab = cli.run(command, frame, **opts)
+        tab = cli.run(command, frame, **opts)
         tables[name] = tab
         out[name] = measures(tab, truth)
+        out[name]["mid"] = measures(cli.run(command, frame, base=MID, **opts), truth)["cover"]
     return out, tables, truth
 
 
@@ -218,13 +225,14 @@ def main():
                 if args.chart and scenario == "common" and seed == 1:
                     chart(args.chart, tables, truth, seed)
             print(f"\nScenario {scenario}: {args.seeds} seeds, mean (min .. max)")
-            print(f"{'index':42s} {'yoy error, pp':>21s} {'level error, %':>21s} {'volatility ratio':>21s} "
-                  f"{'band coverage':>21s}")
+            print(f"{'index':38s} {'yoy error, pp':>18s} {'level error, %':>18s} {'volatility ratio':>18s} "
+                  f"{'coverage, base 1st':>18s} {'coverage, base mid':>18s}")
             for name, _, _ in METHODS:
-                row = f"{name:42s}"
-                for key, fmt in (("yoy", "{:.2f}"), ("level", "{:.2f}"), ("vol", "{:.2f}"), ("cover", "{:.2f}")):
+                row = f"{name:38s}"
+                for key, fmt in (("yoy", "{:.2f}"), ("level", "{:.2f}"), ("vol", "{:.2f}"), ("cover", "{:.2f}"),
+                                 ("mid", "{:.2f}")):
                     v = np.array([r[name][key] for r in results])
-                    row += f" {(fmt.format(v.mean()) + ' (' + fmt.format(v.min()) + '..' + fmt.format(v.max()) + ')'):>21s}"
+                    row += f" {(fmt.format(v.mean()) + ' (' + fmt.format(v.min()) + '..' + fmt.format(v.max()) + ')'):>18s}"
                 print(row)
 
 
