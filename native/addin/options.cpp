@@ -8,6 +8,7 @@
 
 #include "diagnostics.hpp"
 #include "text.hpp"
+#include "text_keys.hpp"
 
 namespace lintel::addin {
 

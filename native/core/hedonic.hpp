@@ -87,8 +87,9 @@ struct HedonicOptions : IndexOptions, IndexSmoothing {
                                             // always are)
     Retransform retransform = Retransform::Smearing;  // retransform (REFHOMEVALUE only):
                                             // "smearing" (Duan 1983, default) or "lognormal"
-    double collinearTolerance = 1e-9;       // (no key) pivot of the scaled A below which a
-                                            // term counts as collinear with earlier terms
+    double collinearTolerance = 1e-9;       // (no option key) pivot of the scaled A below
+                                            // which a term counts as collinear with earlier
+                                            // terms; default 1e-9, 0 < tolerance < 1
 
     // IndexOptions::validate, then window, log and categorical (columns >= 1, not both log
     // and categorical), the tolerance and the smoothing choices. Whether the columns exist is checked against the

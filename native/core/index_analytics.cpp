@@ -88,8 +88,9 @@ SnrResult indexSnr(const std::vector<double>& index, const SnrOptions& o) {
         throw InputError(fmt::format(
             "the signal-to-noise ratio needs at least 2 pairs of consecutive values; the index "
             "has {}", r.pairs));
-    r.signal = std::sqrt(ss / r.pairs);
-    r.noise = std::sqrt(nn / r.pairs);
+    const double pairs = static_cast<double>(r.pairs);
+    r.signal = std::sqrt(ss / pairs);
+    r.noise = std::sqrt(nn / pairs);
     // Noise at the level of rounding (a constant index, a straight line in logs) is no
     // noise: the solver leaves ~1e-13 log points behind, real indexes have 1e-3 and more.
     double scale = 1.0;

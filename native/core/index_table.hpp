@@ -20,8 +20,10 @@ struct IndexOptions {
     Frequency freq = Frequency::Month;  // freq argument: "M" (default), "Q", "Y"
     std::optional<double> baseDate;     // base argument: the period containing it is 100;
                                         // default (nullopt): the first period with a value
-    std::size_t minSales = 1;           // minsales: fewer sales in a period = no value; >= 1
-    double level = 0.95;                // level: confidence of the bands, 0 < level < 1
+    std::size_t minSales = 1;           // minsales: fewer sales in a period = no value; >= 1,
+                                        // default 1
+    double level = 0.95;                // level: confidence of the bands, 0 < level < 1;
+                                        // default 0.95
 
     // Throws InputError naming the option (level, minsales). Every index estimator's
     // validate() calls it first.

@@ -43,7 +43,7 @@ public:
         for (int h = 0; h < c_.H; ++h) {
             double x = 0;
             if (o_.weights == MixWeights::All) {
-                for (int t = 0; t < c_.T; ++t) x += c_.count[c_.at(h, t)];
+                for (int t = 0; t < c_.T; ++t) x += static_cast<double>(c_.count[c_.at(h, t)]);
             } else {
                 for (int t = a; t <= b; ++t)
                     x += o_.weights == MixWeights::Value ? c_.value[c_.at(h, t)]

@@ -63,7 +63,8 @@ struct MixOptions : IndexOptions {
     // for a stratum to have a price in a period; level (0.95) = the bootstrap band's level.
     MixStatistic stat = MixStatistic::Median;   // stat: "median" (default) or "mean"
     MixWeights weights = MixWeights::Sales;     // weights: "sales" (default), "value", "all"
-    bool chain = false;                         // chain: yearly re-weighting, chain-linked
+    bool chain = false;                         // chain: yearly re-weighting, chain-linked;
+                                                // default off (a fixed base)
     EmptyStratumRule empty = EmptyStratumRule::Reweight;  // empty: "reweight" (default), "carry"
     bool bootstrap = false;       // bands: "none" (default) or "bootstrap"
     int reps = 200;               // reps: bootstrap replicates, 20 .. 10000; default 200

@@ -46,7 +46,7 @@ SeasonalResult seasonalFactors(const std::vector<double>& index, const SeasonalO
             throw InputError(fmt::format(
                 "seasonal factors: position {} of the year (rows {}, {}, ...) has no complete "
                 "moving average; too many missing values", k + 1, k + 1, k + 1 + p));
-        r.periodFactors[k] = sum[k] / r.ratios[k];
+        r.periodFactors[k] = sum[k] / static_cast<double>(r.ratios[k]);
         mean += r.periodFactors[k] / p;
     }
     for (double& f : r.periodFactors) f /= mean;

@@ -76,7 +76,7 @@ void run(const std::string& label, std::size_t n, int months, lintel::HedonicOpt
     double sink = 0;
     const double ms = bench::medianMillis(
         [&] {
-            if (fit) sink += lintel::hedonicFit(in, o).terms.size();
+            if (fit) sink += static_cast<double>(lintel::hedonicFit(in, o).terms.size());
             else sink += lintel::hedonicIndex(in, o).table.index.back();
         },
         repeats);

@@ -62,7 +62,7 @@ lintel::RepeatSalesInput sales(std::size_t n) {
     in.sales.date.reserve(n);
     in.sales.price.reserve(n);
     for (std::size_t i = 0; i < n; ++i) {
-        const std::size_t h = i < houses ? i : static_cast<std::size_t>(g.next() * houses);
+        const std::size_t h = i < houses ? i : static_cast<std::size_t>(g.next() * static_cast<double>(houses));
         const double d = kFirstDay + std::floor(g.next() * kDays);
         in.id.push_back(fmt::format("H{:07d}", h));
         in.sales.date.push_back(d);

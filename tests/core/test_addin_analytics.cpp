@@ -59,11 +59,12 @@ double serial(int y, int m, int d) { return serialFromCivil({y, m, d}); }
 
 // Sample standard deviation, written out (n - 1 denominator).
 double sd(const std::vector<double>& v) {
+    const double n = static_cast<double>(v.size());
     double mean = 0;
-    for (double x : v) mean += x / v.size();
+    for (double x : v) mean += x / n;
     double ss = 0;
     for (double x : v) ss += (x - mean) * (x - mean);
-    return std::sqrt(ss / (v.size() - 1));
+    return std::sqrt(ss / (n - 1));
 }
 
 }  // namespace
@@ -422,7 +423,7 @@ BOOST_AUTO_TEST_CASE(compare_layout_names_and_errors) {
     for (int t = 1; t < 30; ++t) a.push_back(a.back() * ((t % 3 == 0) ? 0.9 : 1.1));
     std::vector<double> b(a.size(), NAN), c(a.size());
     for (std::size_t t = 1; t < a.size(); ++t) b[t] = a[t - 1];
-    for (std::size_t t = 0; t < a.size(); ++t) c[t] = 100 + t;
+    for (std::size_t t = 0; t < a.size(); ++t) c[t] = 100 + static_cast<double>(t);
     std::vector<Cell> ca = {Cell::str("raw")}, cb = {Cell::str("lagging")}, cc = {Cell{}};
     for (auto& x : nums(a)) ca.push_back(x);
     for (auto& x : nums(b)) cb.push_back(x);

@@ -13,6 +13,10 @@
 #include <string>
 #include <vector>
 
+#include <initializer_list>
+#include <stdexcept>
+
+#include "call.hpp"
 #include "index_table.hpp"
 
 namespace refcli {
@@ -37,6 +41,22 @@ struct Register {
 
 double number(const Args& a, const std::string& key, double fallback);
 std::string text(const Args& a, const std::string& key, const std::string& fallback);
+// The Options struct O as the spreadsheet function `function` (its name as users type it)
+// would get it from these key=value arguments: the add-in's own bindings read them
+// (native/addin/bind.hpp, call.hpp optionsFromText), so the checks against outside libraries
+// exercise the mapping Calc uses. A key that is neither an argument or option of the function
+// nor one of the command's own keys is an error.
+template <class O>
+O specOptions(const char* function, const Args& a, std::initializer_list<const char*> own = {}) {
+    const lintel::addin::FunctionSpec& f = lintel::addin::functionSpec(function);
+    for (const auto& [key, value] : a) {
+        bool known = f.option(key) != nullptr || (f.argIndex(key) >= 0 && f.args[static_cast<std::size_t>(f.argIndex(key))].binding);
+        for (const char* k : own) known = known || key == k;
+        if (!known) throw std::runtime_error("refcli: " + std::string(function) + " takes no key " + key);
+    }
+    return lintel::addin::optionsFromText<O>(f, a);
+}
+
 // Prints a CSV table: names then columns of equal length.
 void printColumns(const std::vector<std::string>& names,
                   const std::vector<std::vector<double>>& columns);

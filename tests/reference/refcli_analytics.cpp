@@ -29,25 +29,6 @@ namespace {
 
 using namespace lintel;
 
-Frequency freqArg(const refcli::Args& a, const char* fallback = "M") {
-    const auto f = parseFrequency(refcli::text(a, "freq", fallback));
-    if (!f) throw InputError("bad freq");
-    return *f;
-}
-
-std::optional<double> optionalNumber(const refcli::Args& a, const std::string& key) {
-    const double x = refcli::number(a, key, NAN);
-    if (std::isfinite(x)) return x;
-    return std::nullopt;
-}
-
-// A whole-number option; nullopt when not given.
-std::optional<int> optionalInt(const refcli::Args& a, const std::string& key) {
-    const auto x = optionalNumber(a, key);
-    if (x) return static_cast<int>(*x);
-    return std::nullopt;
-}
-
 void report(const Diagnostics& d) {
     std::fprintf(stderr, "%s\n", d.summary().c_str());
     for (const auto& w : d.warnings) std::fprintf(stderr, "warning: %s\n", w.c_str());
@@ -70,21 +51,9 @@ const refcli::Register regMix("mix", [](const refcli::Table& t, const refcli::Ar
         for (double x : t.numbers("include")) in.sales.include.push_back(x != 0 ? 1 : 0);
     for (const auto& name : splitBar(refcli::text(a, "strata", "stratum")))
         in.strata.push_back(t.text(name));
-    MixOptions o;
-    o.freq = freqArg(a);
-    o.baseDate = optionalNumber(a, "base");
-    o.minSales = static_cast<std::size_t>(refcli::number(a, "minsales", 1));
-    const std::string stat = refcli::text(a, "stat", "median");
-    o.stat = stat == "mean" ? MixStatistic::Mean : MixStatistic::Median;
-    const std::string w = refcli::text(a, "weights", "sales");
-    o.weights = w == "value" ? MixWeights::Value : w == "all" ? MixWeights::All : MixWeights::Sales;
-    o.chain = refcli::number(a, "chain", 0) != 0;
-    o.empty = refcli::text(a, "empty", "reweight") == "carry" ? EmptyStratumRule::Carry
-                                                              : EmptyStratumRule::Reweight;
-    o.bootstrap = refcli::text(a, "bands", "none") == "bootstrap";
-    o.reps = static_cast<int>(refcli::number(a, "reps", 200));
-    o.seed = static_cast<unsigned long long>(refcli::number(a, "seed", 1));
-    o.level = refcli::number(a, "level", 0.95);
+    refcli::Args spec = a;
+    spec.erase("strata");  // the command's own key: which CSV columns are the strata
+    const auto o = refcli::specOptions<MixOptions>("INDEXMIX", spec);
     const MixResult r = indexMix(in, o);
     report(r.diag);
     std::fprintf(stderr, "strata=%zu weighted=%zu links=%zu empty=%zu thin=%zu unpriced=%zu\n",
@@ -94,9 +63,9 @@ const refcli::Register regMix("mix", [](const refcli::Table& t, const refcli::Ar
 });
 
 const refcli::Register regHp("hp", [](const refcli::Table& t, const refcli::Args& a) {
-    HpOptions o;
-    o.freq = freqArg(a, "Q");
-    o.lambda = optionalNumber(a, "lambda");
+    refcli::Args spec = a;
+    spec.emplace("freq", "Q");  // this command's default (statsmodels' macrodata is quarterly)
+    const auto o = refcli::specOptions<HpOptions>("INDEXTREND", spec);
     const HpResult r = hodrickPrescott(t.numbers(t.find("y") >= 0 ? "y" : "index"), o);
     report(r.diag);
     refcli::printColumns({"trend", "cycle"}, {r.trend, r.cycle});
@@ -104,10 +73,7 @@ const refcli::Register regHp("hp", [](const refcli::Table& t, const refcli::Args
 });
 
 const refcli::Register regVol("volatility", [](const refcli::Table& t, const refcli::Args& a) {
-    VolatilityOptions o;
-    o.lag = static_cast<int>(refcli::number(a, "lag", 1));
-    o.annual = refcli::number(a, "annual", 0) != 0;
-    o.freq = freqArg(a);
+    const auto o = refcli::specOptions<VolatilityOptions>("INDEXVOLATILITY", a);
     const VolatilityResult r = indexVolatility(t.numbers("index"), o);
     report(r.diag);
     refcli::printColumns({"volatility", "changes"}, {{r.volatility}, {double(r.changes)}});
@@ -115,9 +81,7 @@ const refcli::Register regVol("volatility", [](const refcli::Table& t, const ref
 });
 
 const refcli::Register regSnr("snr", [](const refcli::Table& t, const refcli::Args& a) {
-    SnrOptions o;
-    o.freq = freqArg(a);
-    o.lambda = optionalNumber(a, "lambda");
+    const auto o = refcli::specOptions<SnrOptions>("INDEXSNR", a);
     const SnrResult r = indexSnr(t.numbers("index"), o);
     report(r.diag);
     refcli::printColumns({"snr", "signal", "noise", "pairs"},
@@ -126,11 +90,7 @@ const refcli::Register regSnr("snr", [](const refcli::Table& t, const refcli::Ar
 });
 
 const refcli::Register regLeadLag("leadlag", [](const refcli::Table& t, const refcli::Args& a) {
-    LeadLagOptions o;
-    o.freq = freqArg(a);
-    o.changeLag = optionalInt(a, "lag");
-    o.maxLag = optionalInt(a, "maxlag");
-    o.minPairs = static_cast<std::size_t>(refcli::number(a, "minpairs", 3));
+    const auto o = refcli::specOptions<LeadLagOptions>("INDEXLEADLAG", a);
     const LeadLagResult r = indexLeadLag({t.numbers("a"), t.numbers("b")}, o);
     report(r.diag);
     std::vector<double> lag, corr, pairs, best;
@@ -145,12 +105,7 @@ const refcli::Register regLeadLag("leadlag", [](const refcli::Table& t, const re
 });
 
 const refcli::Register regTurns("turns", [](const refcli::Table& t, const refcli::Args& a) {
-    TurnsOptions o;
-    if (a.count("freq")) o.freq = freqArg(a);
-    o.window = optionalInt(a, "window");
-    o.minPhase = optionalInt(a, "minphase");
-    o.minCycle = optionalInt(a, "mincycle");
-    o.ends = optionalInt(a, "ends");
+    const auto o = refcli::specOptions<TurnsOptions>("INDEXTURNS", a);
     const TurnsResult r = indexTurns({t.numbers("period"), t.numbers("index")}, o);
     report(r.diag);
     std::vector<double> period, peak, value, months;
@@ -165,8 +120,7 @@ const refcli::Register regTurns("turns", [](const refcli::Table& t, const refcli
 });
 
 const refcli::Register regSeasonal("seasonal", [](const refcli::Table& t, const refcli::Args& a) {
-    SeasonalOptions o;
-    o.freq = freqArg(a);
+    const auto o = refcli::specOptions<SeasonalOptions>("INDEXSEASONAL", a);
     const SeasonalResult r = seasonalFactors(t.numbers("index"), o);
     report(r.diag);
     refcli::printColumns({"factor", "adjusted", "trend"}, {r.factor, r.adjusted, r.trend});
@@ -179,12 +133,7 @@ const refcli::Register regCompare("compare", [](const refcli::Table& t, const re
         in.columns.push_back(t.numbers(name));
         in.names.push_back(name);
     }
-    CompareOptions o;
-    o.freq = freqArg(a);
-    o.lag = static_cast<int>(refcli::number(a, "lag", 1));
-    o.changeLag = optionalInt(a, "leadlag");
-    o.maxLag = optionalInt(a, "maxlag");
-    o.lambda = optionalNumber(a, "lambda");
+    const auto o = refcli::specOptions<CompareOptions>("INDEXCOMPARE", a);
     const CompareResult r = indexCompare(in, o);
     report(r.diag);
     std::vector<double> vol, snr, maxch, lag, corr, missing;

@@ -27,17 +27,6 @@
 
 namespace {
 
-std::vector<int> intList(const refcli::Args& a, const std::string& key) {
-    std::vector<int> v;
-    std::string s = refcli::text(a, key, "");
-    for (char& c : s)
-        if (c == ',' || c == ';') c = ' ';
-    std::istringstream is(s);
-    int x;
-    while (is >> x) v.push_back(x);
-    return v;
-}
-
 lintel::HedonicInput readInput(const refcli::Table& t) {
     lintel::HedonicInput in;
     in.sales.date = t.numbers("date");
@@ -55,25 +44,10 @@ lintel::HedonicInput readInput(const refcli::Table& t) {
     return in;
 }
 
-lintel::HedonicOptions readOptions(const refcli::Args& a) {
-    lintel::HedonicOptions o;
-    o.freq = *lintel::parseFrequency(refcli::text(a, "freq", "M"));
-    const double base = refcli::number(a, "base", NAN);
-    if (std::isfinite(base)) o.baseDate = base;
-    o.minSales = static_cast<std::size_t>(refcli::number(a, "minsales", 1));
-    o.level = refcli::number(a, "level", 0.95);
-    o.window = static_cast<int>(refcli::number(a, "window", 0));
-    o.bias = refcli::text(a, "bias", "none") == "kennedy" ? lintel::HedonicBias::Kennedy
-                                                          : lintel::HedonicBias::None;
-    o.se = refcli::text(a, "se", "classical") == "hc1" ? lintel::HedonicStdErr::HC1
-                                                       : lintel::HedonicStdErr::Classical;
-    o.retransform = refcli::text(a, "retransform", "smearing") == "lognormal"
-                        ? lintel::Retransform::Lognormal
-                        : lintel::Retransform::Smearing;
-    o.logColumns = intList(a, "log");
-    o.categoricalColumns = intList(a, "categorical");
-    refcli::readSmoothing(a, o);
-    return o;
+// The options as the function behind the command reads them (INDEXHEDONIC,
+// HEDONICCOEFS or REFHOMEVALUE).
+lintel::HedonicOptions readOptions(const refcli::Args& a, const char* function) {
+    return refcli::specOptions<lintel::HedonicOptions>(function, a, {"home", "homeout"});
 }
 
 void printDiag(const lintel::Diagnostics& d) {
@@ -96,24 +70,26 @@ std::string num(double x) {
 
 const refcli::Register regIndex("hedonic_index", [](const refcli::Table& t,
                                                     const refcli::Args& a) {
-    const lintel::IndexResult r = lintel::hedonicIndex(readInput(t), readOptions(a));
+    const lintel::IndexResult r = lintel::hedonicIndex(readInput(t), readOptions(a, "INDEXHEDONIC"));
     printDiag(r.diag);
     return refcli::printIndexTable(r.table);
 });
 
 const refcli::Register regSmooth("hedonic_smooth", [](const refcli::Table& t,
                                                       const refcli::Args& a) {
-    return refcli::printSmoothed(lintel::smoothedHedonicIndex(readInput(t), readOptions(a)));
+    return refcli::printSmoothed(
+        lintel::smoothedHedonicIndex(readInput(t), readOptions(a, "INDEXHEDONIC")));
 });
 
 const refcli::Register regEffects("hedonic_effects", [](const refcli::Table& t,
                                                         const refcli::Args& a) {
-    return refcli::printEffects(lintel::hedonicPeriodEffects(readInput(t), readOptions(a)));
+    return refcli::printEffects(
+        lintel::hedonicPeriodEffects(readInput(t), readOptions(a, "INDEXHEDONIC")));
 });
 
 const refcli::Register regCoefs("hedonic_coefs", [](const refcli::Table& t,
                                                     const refcli::Args& a) {
-    const lintel::HedonicFit f = lintel::hedonicFit(readInput(t), readOptions(a));
+    const lintel::HedonicFit f = lintel::hedonicFit(readInput(t), readOptions(a, "HEDONICCOEFS"));
     printDiag(f.diag);
     std::printf("kind,term,coefficient,std_error,t,note\n");
     for (const auto& term : f.terms) {
@@ -158,7 +134,7 @@ const refcli::Register regHome("hedonic_home", [](const refcli::Table& t,
         home.numbers.resize(in.characteristics.size(), NAN);
         home.texts.resize(in.characteristics.size());
     }
-    const lintel::RefHomeResult r = lintel::referenceHomeValue(in, home, readOptions(a));
+    const lintel::RefHomeResult r = lintel::referenceHomeValue(in, home, readOptions(a, "REFHOMEVALUE"));
     printDiag(r.diag);
     refcli::printColumns({"period", "value", "lower", "upper", "sales"},
                          {refcli::periodStarts(r.table.axis), r.value(), r.table.lower, r.table.upper,

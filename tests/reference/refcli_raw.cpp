@@ -14,13 +14,7 @@ int runRaw(const refcli::Table& t, const refcli::Args& a, bool median) {
     in.price = t.numbers("price");
     if (t.find("include") >= 0)
         for (double x : t.numbers("include")) in.include.push_back(x != 0 ? 1 : 0);
-    lintel::RawIndexOptions o;
-    o.freq = *lintel::parseFrequency(refcli::text(a, "freq", "M"));
-    const double base = refcli::number(a, "base", NAN);
-    if (std::isfinite(base)) o.baseDate = base;
-    o.minSales = static_cast<std::size_t>(refcli::number(a, "minsales", 1));
-    o.trim = refcli::number(a, "trim", 0);
-    o.level = refcli::number(a, "level", 0.95);
+    const auto o = refcli::specOptions<lintel::RawIndexOptions>(median ? "INDEXMEDIAN" : "INDEXMEAN", a);
     const lintel::IndexResult r = median ? lintel::indexMedian(in, o) : lintel::indexMean(in, o);
     return refcli::printIndexTable(r.table);
 }

@@ -28,24 +28,9 @@
 
 namespace {
 
-lintel::RepeatSalesOptions options(const refcli::Args& a) {
-    lintel::RepeatSalesOptions o;
-    const auto f = lintel::parseFrequency(refcli::text(a, "freq", "M"));
-    if (!f) throw std::runtime_error("bad freq");
-    o.freq = *f;
-    const double base = refcli::number(a, "base", NAN);
-    if (std::isfinite(base)) o.baseDate = base;
-    const auto m = lintel::parseRepeatSalesMethod(refcli::text(a, "method", "cs"));
-    if (!m) throw std::runtime_error("bad method");
-    o.method = *m;
-    o.minHoldMonths = refcli::number(a, "minhold", o.minHoldMonths);
-    o.maxRate = refcli::number(a, "maxrate", o.maxRate);
-    o.chain = refcli::number(a, "chain", 0) != 0;
-    if (const double init = refcli::number(a, "init", 0); init > 0) o.chainInit = static_cast<int>(init);
-    o.minSales = static_cast<std::size_t>(refcli::number(a, "minsales", 1));
-    o.level = refcli::number(a, "level", 0.95);
-    refcli::readSmoothing(a, o);
-    return o;
+// The options as CHAINRS (or RSPAIRS, whose freq and base are options) reads them.
+lintel::RepeatSalesOptions options(const refcli::Args& a, const char* function = "CHAINRS") {
+    return refcli::specOptions<lintel::RepeatSalesOptions>(function, a, {"numericid"});
 }
 
 lintel::RepeatSalesInput input(const refcli::Table& t, const refcli::Args& a) {
@@ -110,7 +95,7 @@ const refcli::Register regFromPairs("repeat_sales_from_pairs", [](const auto& t,
 });
 
 const refcli::Register regPairs("repeat_sales_pairs", [](const auto& t, const auto& a) {
-    const lintel::PairAudit audit = lintel::repeatSalesPairs(input(t, a), options(a));
+    const lintel::PairAudit audit = lintel::repeatSalesPairs(input(t, a), options(a, "RSPAIRS"));
     std::printf("id,first_row,first_date,first_price,second_row,second_date,second_price,"
                 "months,rate,used,status,reason,weight\n");
     for (const auto& p : audit.pairs) {
@@ -133,7 +118,7 @@ const refcli::Register regPairs("repeat_sales_pairs", [](const auto& t, const au
 });
 
 const refcli::Register regDiag("repeat_sales_diag", [](const auto& t, const auto& a) {
-    const lintel::RepeatSalesOptions o = options(a);
+    const lintel::RepeatSalesOptions o = options(a, "RSPAIRS");
     const lintel::PairAudit audit = lintel::repeatSalesPairs(input(t, a), o);
     std::printf("kind,name,value\n");
     std::printf("rows_in,,%zu\nrows_used,,%zu\n", audit.diag.rowsIn, audit.diag.rowsUsed);

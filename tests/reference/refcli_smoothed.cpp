@@ -2,21 +2,9 @@
 
 #include <cmath>
 #include <cstdio>
-#include <stdexcept>
 #include <string>
 
 namespace refcli {
-
-void readSmoothing(const Args& a, lintel::IndexSmoothing& s) {
-    const std::string smooth = text(a, "smooth", "none");
-    if (smooth == "none") s.smooth = lintel::SmoothKind::None;
-    else if (smooth == "level") s.smooth = lintel::SmoothKind::Level;
-    else if (smooth == "trend") s.smooth = lintel::SmoothKind::Trend;
-    else throw std::runtime_error("bad smooth");
-    s.seasonal = number(a, "seasonal", 0) != 0;
-    s.realtime = number(a, "realtime", 0) != 0;
-    s.borrow = number(a, "borrow", 0) != 0;
-}
 
 int printSmoothed(const lintel::SmoothedIndexResult& r) {
     std::fprintf(stderr, "%s\n%s\n", r.diag.summary().c_str(), r.model.summary().c_str());
@@ -33,8 +21,8 @@ int printSmoothed(const lintel::SmoothedIndexResult& r) {
                   constant(v.seasonal), constant(v.deviation), constant(r.model.logLikelihood),
                   constant(r.model.signalToNoise), constant(r.model.evaluations),
                   constant(r.model.boundary ? 1 : 0),
-                  constant(r.initialPeriods > 0 ? r.initialPeriods - 1 : NAN),
-                  constant(r.lastEstimate >= 0 ? r.lastEstimate : NAN),
+                  constant(r.initialPeriods > 0 ? static_cast<double>(r.initialPeriods - 1) : NAN),
+                  constant(r.lastEstimate >= 0 ? static_cast<double>(r.lastEstimate) : NAN),
                   constant(r.periodsWithoutEffect), constant(static_cast<double>(r.marketRowsUsed))});
     return 0;
 }

@@ -1,6 +1,7 @@
 // refcli helpers for the smoothed indexes (smoothed_index.hpp), used by refcli_hedonic.cpp and
 // refcli_repeat_sales.cpp:
-//   options smooth=none|level|trend seasonal=0|1 realtime=0|1 borrow=0|1 (as the add-in's)
+//   options smooth=none|level|trend seasonal=0|1 realtime=0|1 borrow=0|1 (read through the
+//   functions' specs, as the add-in reads them)
 //   <estimator>_smooth  -> period, index, count, lower, upper, log, se, then constant columns
 //        v_level, v_slope, v_seasonal, v_deviation, ll, q, evaluations, boundary, t0
 //        (realtime: the last period published from the first vintage, else empty),
@@ -14,7 +15,6 @@
 
 namespace refcli {
 
-void readSmoothing(const Args& a, lintel::IndexSmoothing& s);
 int printSmoothed(const lintel::SmoothedIndexResult& r);
 int printEffects(const lintel::PeriodEffectSeries& e);
 
