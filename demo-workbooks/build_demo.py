@@ -37,6 +37,11 @@ def report_settings(n_rows, segment=None):
              "changed=renovated", "characteristics=district|type|floor_area|lot|bedrooms|age",
              "strata=district|type", "freq=M", "base=2015-01-01", "level=0.95", f"methods={METHODS}",
              "options.hedonic=log=3", "options.refhome=log=3"]
+    if not segment:
+        # The market summary: three districts x two types, plus the whole market.
+        lines += ["segments=district|type",
+                  "segmentlist=" + "|".join(f"{d}/{t}" for d in ("Brindle Flats", "Tallowick", "Quessenby")
+                                            for t in ("flat", "terraced"))]
     if segment:
         lines.append(segment)
     return "\n".join(lines) + "\n"

@@ -88,17 +88,24 @@ class ReportTest(unittest.TestCase):
         rep = self.doc.Sheets.getByName("Report East")
         last_sale = max(r[0] for r in self.rows[1:] if r[3] == "East")
         up_to = (EPOCH + pd.Timedelta(days=last_sale)).strftime("%Y-%m-%d")
-        self.assertEqual(rep.getCellRangeByName("A1").getString(),
-                         f"Price indexes: District = East (2021-Q1 .. 2023-Q4), sales up to {up_to}")
-        self.assertIn("appraisal by a licensed professional", rep.getCellRangeByName("A2").getString())
-        self.assertEqual(rep.getCellRangeByName("B7").getString(), '($Sales.$D$2:$D$901="East")')
+        self.assertEqual(rep.getCellRangeByName("A1").getString(), "Residential prices: District = East")
+        self.assertEqual(rep.getCellRangeByName("A2").getString(),
+                         f"Sales up to {up_to} · quarterly (2021-Q1 .. 2023-Q4) · latest full period 2023-Q3 · "
+                         "index = 100 in 2022-Q1")
+        self.assertIn("appraisal by a licensed professional", rep.getCellRangeByName("A3").getString())
+        # The printed pages (rows 1-80) show no formula text of the worksheet (issue 15).
+        printed = rep.getCellRangeByName("A1:L80").getDataArray()
+        self.assertFalse([v for r in printed for v in r if isinstance(v, str) and "$Sales" in v])
+        # The market summary: the one segment quotes its first suitable measure (the median).
+        summary = self.named("Lintel_r1_summary").getDataArray()
+        self.assertEqual(summary[1][:2], ("District = East", "Median"))
         # Index tables: one array formula per method, sized to the 12 periods, each a named range.
-        table = self.named("Lintel_r1_table_median")
+        table = self.named("Lintel_r1_all_median")
         self.assertEqual(table.Rows.Count, 12)
         # (the API shows array formulas in braces with "," separators)
         self.assertEqual(table.getArrayFormula(),
-                         '{=INDEXMEDIAN($Sales.$A$2:$A$901,$Sales.$B$2:$B$901,($Sales.$D$2:$D$901="East"),$B$8,$B$9,"level="&$B$10)}')
-        self.assertTrue(self.named("Lintel_r1_table_mean").getArrayFormula().startswith("{=INDEXMEAN("))
+                         '{=INDEXMEDIAN($Sales.$A$2:$A$901,$Sales.$B$2:$B$901,($Sales.$D$2:$D$901="East"),$B$87,$B$88,"level="&$B$89)}')
+        self.assertTrue(self.named("Lintel_r1_all_mean").getArrayFormula().startswith("{=INDEXMEAN("))
         # The report's values equal the function called directly.
         direct = self.doc.Sheets
         direct.insertNewByName("Direct", direct.Count)
@@ -111,9 +118,8 @@ class ReportTest(unittest.TestCase):
         # Charts and the ranges they show.
         charts = rep.Charts
         names = set(charts.ElementNames)
-        self.assertEqual(names, {"Lintel_r1_levels", "Lintel_r1_yearchange", "Lintel_r1_periodchange",
-                                 "Lintel_r1_signalnoise", "Lintel_r1_sales"})
-        levels = charts.getByName("Lintel_r1_levels").Ranges[0]
+        self.assertEqual(names, {"Lintel_r1_quoted", "Lintel_r1_sales", "Lintel_r1_measures", "Lintel_r1_yearly"})
+        levels = charts.getByName("Lintel_r1_measures").Ranges[0]
         t0 = table.RangeAddress
         self.assertEqual((levels.StartRow, levels.EndRow), (t0.StartRow - 1, t0.EndRow))
         self.assertEqual(levels.EndColumn - levels.StartColumn, 2)  # periods + 2 methods
@@ -121,14 +127,15 @@ class ReportTest(unittest.TestCase):
         block = rep.getCellRangeByPosition(levels.StartColumn + 1, t0.StartRow, levels.StartColumn + 1, t0.EndRow)
         self.assertEqual([r[0] for r in block.getDataArray()], [r[1] for r in table.getDataArray()])
         # Change the base date in the settings block: the whole report follows.
-        rep.getCellRangeByName("B9").setValue(float((pd.Timestamp("2023-11-30") - EPOCH).days))
+        rep.getCellRangeByName("B88").setValue(float((pd.Timestamp("2023-11-30") - EPOCH).days))
         self.doc.calculateAll()
         self.assertEqual(table.getCellByPosition(1, 11).getValue(), 100.0)
-        self.assertEqual(self.named("Lintel_r1_table_mean").getCellByPosition(1, 11).getValue(), 100.0)
+        self.assertEqual(self.named("Lintel_r1_all_mean").getCellByPosition(1, 11).getValue(), 100.0)
         # ... and Update keeps the edited base date.
         self.assertTrue(self.build(mode="update", sheet="Report East").startswith("Report East: "))
-        self.assertEqual(rep.getCellRangeByName("B9").getString(), "2023-11-30")
-        self.assertEqual(self.named("Lintel_r1_table_median").getCellByPosition(1, 11).getValue(), 100.0)
+        self.assertEqual(rep.getCellRangeByName("B88").getString(), "2023-11-30")
+        self.assertTrue(rep.getCellRangeByName("A2").getString().endswith("index = 100 in 2023-Q4"))
+        self.assertEqual(self.named("Lintel_r1_all_median").getCellByPosition(1, 11).getValue(), 100.0)
 
     def test_settings_survive_save_reload_and_update_grows(self):
         self.assertTrue(self.build(SETTINGS.format(last=len(self.rows))).startswith("Report East"))
@@ -147,7 +154,7 @@ class ReportTest(unittest.TestCase):
         sales.getCellRangeByName(f"A{last + 1}:E{last + 5}").setDataArray(extra)
         status = self.build(mode="update", sheet="Report East")
         self.assertIn("13 periods (2021-Q1 .. 2024-Q1)", status)
-        table = self.named("Lintel_r1_table_median")
+        table = self.named("Lintel_r1_all_median")
         self.assertEqual(table.Rows.Count, 13)
         self.assertEqual(table.getArrayFormula().count("$A$2:$A$906"), 1)
         self.assertEqual(table.getCellByPosition(2, 12).getValue(), 5.0)
@@ -158,7 +165,7 @@ class ReportTest(unittest.TestCase):
         settings = SETTINGS.format(last=len(self.rows)).replace("data=Sales.", "data=Closed sales v1.2.")
         status = self.build(settings)
         self.assertTrue(status.startswith("Report East: "), status)
-        table = self.named("Lintel_r1_table_median")
+        table = self.named("Lintel_r1_all_median")
         self.assertIn("$'Closed sales v1.2'.$A$2:$A$901", table.getArrayFormula())
         self.assertEqual(table.getCellByPosition(1, 4).getValue(), 100.0)
 
@@ -168,7 +175,7 @@ class ReportTest(unittest.TestCase):
             SETTINGS.format(last=last).replace("price=Price", "price=Cost"):
                 'Lintel: the price column "Cost" is not in the header of Sales.A1:E901',
             SETTINGS.format(last=last).replace("segment.District=East", "segment.District=North"):
-                "Lintel: the segment (District = North) keeps no sale with a date and a price",
+                "Lintel: the scope (District = North) keeps no sale with a date and a price",
             SETTINGS.format(last=last).replace("methods=median|mean", "methods=median|magic"):
                 'Lintel: unknown method "magic"',
             SETTINGS.format(last=last).replace("data=Sales.A1", "data=Nowhere.A1"):
@@ -219,8 +226,8 @@ class ReportTest(unittest.TestCase):
         # Each report names its charts apart (chart names are unique in a document).
         first = set(self.doc.Sheets.getByName("Report Harbourside quarter nort").Charts.ElementNames)
         second = set(self.doc.Sheets.getByName("Report Harbourside quarter (2)").Charts.ElementNames)
-        self.assertEqual(len(first), 5)
-        self.assertEqual(len(second), 5)
+        self.assertEqual(len(first), 4)
+        self.assertEqual(len(second), 4)
         self.assertFalse(first & second)
 
     def test_a_document_counting_from_1904(self):
@@ -233,11 +240,11 @@ class ReportTest(unittest.TestCase):
         status = self.build(SETTINGS.format(last=len(self.rows)))
         self.assertIn("12 periods (2021-Q1 .. 2023-Q4)", status)
         rep = self.doc.Sheets.getByName("Report East")
-        self.assertEqual(rep.getCellRangeByName("B9").getString(), "2022-02-10")
-        table = self.named("Lintel_r1_table_median")
+        self.assertEqual(rep.getCellRangeByName("B88").getString(), "2022-02-10")
+        table = self.named("Lintel_r1_all_median")
         self.assertEqual(table.getCellByPosition(1, 4).getValue(), 100.0)
         # The chart data block lines the methods up by period: numbers, not gaps.
-        levels = rep.Charts.getByName("Lintel_r1_levels").Ranges[0]
+        levels = rep.Charts.getByName("Lintel_r1_measures").Ranges[0]
         block = rep.getCellRangeByPosition(levels.StartColumn + 1, levels.StartRow + 1,
                                            levels.StartColumn + 1, levels.EndRow)
         values = [r[0] for r in block.getDataArray()]
@@ -300,11 +307,11 @@ class ReportTest(unittest.TestCase):
         for status, sheet in [(east, "Report East"), (west, "Report West"), (everything, "Report All sales")]:
             self.assertTrue(status.startswith(sheet + ": "), status)
         self.assertEqual(self.doc.Sheets.Count, 4)
-        # Their objects are named apart: three ids, five charts each, names per report.
+        # Their objects are named apart: three ids, four charts each, names per report.
         ids = {}
         for sheet in ["Report East", "Report West", "Report All sales"]:
             charts = set(self.doc.Sheets.getByName(sheet).Charts.ElementNames)
-            self.assertEqual(len(charts), 5)
+            self.assertEqual(len(charts), 4)
             ids[sheet] = {c.split("_")[1] for c in charts}
         self.assertEqual(sorted(i for v in ids.values() for i in v), ["r1", "r2", "r3"])
         # Updates in mixed order, with sales added in between.
@@ -314,8 +321,8 @@ class ReportTest(unittest.TestCase):
         sales.getCellRangeByName(f"A{last + 1}:E{last + 1}").setDataArray(add)
         for sheet in ["Report West", "Report East", "Report All sales", "Report West"]:
             self.assertTrue(self.build(mode="update", sheet=sheet).startswith(sheet + ": "))
-        self.assertEqual(self.named("Lintel_r2_table_median").Rows.Count, 13)  # West grew to 2024-Q1
-        self.assertEqual(self.named("Lintel_r1_table_median").Rows.Count, 12)  # East did not
+        self.assertEqual(self.named("Lintel_r2_all_median").Rows.Count, 13)  # West grew to 2024-Q1
+        self.assertEqual(self.named("Lintel_r1_all_median").Rows.Count, 12)  # East did not
         self.assertEqual(self.doc.Sheets.Count, 4)
 
     def test_outside_priceadjust_survives_updates(self):
@@ -327,7 +334,7 @@ class ReportTest(unittest.TestCase):
         # hedonic table (through its named range).
         comp.getCellRangeByName("A1").setFormula(
             "=PRICEADJUST(350000;DATE(2021;5;14);DATE(2023;10;1);"
-            "INDEX(Lintel_r1_table_hedonic;0;1);INDEX(Lintel_r1_table_hedonic;0;2))")
+            "INDEX(Lintel_r1_all_hedonic;0;1);INDEX(Lintel_r1_all_hedonic;0;2))")
         sales = self.doc.Sheets.getByName("Sales")
         last = len(self.rows)
         for k, day in enumerate(["2024-01-10", "2024-02-20"]):
@@ -347,7 +354,7 @@ class ReportTest(unittest.TestCase):
                 "=PRICEADJUST(350000;DATE(2021;5;14);DATE(2023;10;1);C1:C13;D1:D13)")
             self.doc.calculateAll()
             self.assertAlmostEqual(got.getValue(), comp.getCellRangeByName("B1").getValue(), places=6)
-            self.assertEqual(self.named("Lintel_r1_table_hedonic").Rows.Count, 13)
+            self.assertEqual(self.named("Lintel_r1_all_hedonic").Rows.Count, 13)
             comp.getCellRangeByName("B1:G13").clearContents(1023)
 
     def test_user_cells_survive_and_stop_an_update_in_the_way(self):
@@ -358,7 +365,7 @@ class ReportTest(unittest.TestCase):
         self.assertTrue(self.build(mode="update", sheet="Report East").startswith("Report East"))
         self.assertEqual(rep.getCellRangeByName("R3").getString(), "call the client on Monday")
         # A value typed into a report block stops the update, which names the cell.
-        table = self.named("Lintel_r1_table_median").RangeAddress
+        table = self.named("Lintel_r1_all_median").RangeAddress
         below = rep.getCellByPosition(6, table.EndRow + 1)  # under the mean table's period column
         note = rep.getCellByPosition(table.StartColumn + 1, table.StartRow - 2)  # the table's title row
         note.setString("my note")
@@ -415,8 +422,8 @@ class ReportTest(unittest.TestCase):
         self.assertTrue(got.startswith("Report East: "), got)
         self.assertIn('1 method failed: Hedonic time dummy: unknown option "colour"', got)
         rep = self.doc.Sheets.getByName("Report East")
-        labels = [r[0] for r in rep.getCellRangeByName("A15:A17").getDataArray()]
-        status = [r[0] for r in rep.getCellRangeByName("B15:B17").getDataArray()]
+        labels = [r[0] for r in rep.getCellRangeByName("A96:A97").getDataArray()]
+        status = [r[0] for r in rep.getCellRangeByName("B96:B97").getDataArray()]
         row = labels.index("Hedonic time dummy")
         self.assertTrue(status[row].startswith('Lintel: unknown option "colour"'), status)
         self.assertEqual(status[labels.index("Median")], "ok")
@@ -432,11 +439,10 @@ class ReportTest(unittest.TestCase):
         got = self.build(settings)
         self.assertIn("sales up to 2024-01-14", got)
         rep = self.doc.Sheets.getByName("Report East")
-        self.assertEqual(rep.getCellRangeByName("B13").getString(),
+        self.assertEqual(rep.getCellRangeByName("B93").getString(),
                          "2023-12 (2024-01 is partial: sales up to 2024-01-14)")
-        comparison = self.named("Lintel_r1_comparison")
-        heads = comparison.getDataArray()[0]
-        latest = heads.index("Latest period (%)")
+        summary = self.named("Lintel_r1_summary")
+        self.assertEqual(summary.getDataArray()[0][4], "Change, month %")
         # The headline change is December's (the change column's last complete period).
         direct = self.doc.Sheets
         direct.insertNewByName("Direct", direct.Count)
@@ -447,12 +453,24 @@ class ReportTest(unittest.TestCase):
         d.getCellRangeByName("F1:F37").setArrayFormula("=INDEXCHANGE(B1:B37;1)")
         self.doc.calculateAll()
         dec = sheet_values(d, "F36")[0][0]  # 2023-12 is the 36th month from 2021-01
-        self.assertAlmostEqual(comparison.getCellByPosition(latest, 1).getValue(), dec, places=9)
-        # With partial=include the headline moves to January.
-        got = self.build(mode="update", sheet="Report East") if False else None
-        # The thin flag: East has about 12 sales a month, under the threshold of 20.
-        flag = comparison.getCellByPosition(latest + 1, 1).getString()
-        self.assertTrue(flag.startswith("thin: "), flag)
+        self.assertAlmostEqual(summary.getCellByPosition(4, 1).getValue(), dec, places=9)
+        # The flags: East has about 12 sales a month, under the threshold of 20, and its last
+        # month is partial.
+        self.assertEqual(summary.getCellByPosition(9, 1).getString(), "thin partial")
+        # The year change and its band: INDEXCHANGE over 12 months, and the band of the
+        # median with its base a year before December (2022-12).
+        d.getCellRangeByName("G1:G37").setArrayFormula("=INDEXCHANGE(B1:B37;12)")
+        d.getCellRangeByName("H1:L37").setArrayFormula(
+            f'=INDEXMEDIAN($Sales.A2:A{n};$Sales.B2:B{n};($Sales.D2:D{n}="East");"M";DATE(2022;12;1);"level=0.9")')
+        self.doc.calculateAll()
+        self.assertAlmostEqual(summary.getCellByPosition(5, 1).getValue(), sheet_values(d, "G36")[0][0], places=9)
+        self.assertAlmostEqual(summary.getCellByPosition(6, 1).getValue(), sheet_values(d, "K36")[0][0] - 100, places=9)
+        self.assertAlmostEqual(summary.getCellByPosition(7, 1).getValue(), sheet_values(d, "L36")[0][0] - 100, places=9)
+        # Sales in the month and the median price of December's East sales.
+        dec_prices = [r[1] for r in self.rows[1:] if r[3] == "East" and
+                      (EPOCH + pd.Timedelta(days=r[0])).strftime("%Y-%m") == "2023-12"]
+        self.assertEqual(summary.getCellByPosition(8, 1).getValue(), len(dec_prices))
+        self.assertEqual(summary.getCellByPosition(2, 1).getValue(), float(np.median(dec_prices)))
 
 
 if __name__ == "__main__":

@@ -83,11 +83,11 @@ class SidebarTest(unittest.TestCase):
                         status.startswith("Report West:"), status)
         self.assertIn("12 periods (2021-Q1 .. 2023-Q4)", status)
         rep = self.doc.Sheets.getByName("Report West")
-        self.assertEqual(rep.getCellRangeByName("B9").getValue(), 44562.0)  # 2022-01-01
-        self.assertEqual(rep.getCellRangeByName("B10").getValue(), 0.9)
-        table = self.doc.NamedRanges.getByName("Lintel_r1_table_median").ReferredCells
+        self.assertEqual(rep.getCellRangeByName("B88").getValue(), 44562.0)  # 2022-01-01
+        self.assertEqual(rep.getCellRangeByName("B89").getValue(), 0.9)
+        table = self.doc.NamedRanges.getByName("Lintel_r1_all_median").ReferredCells
         self.assertEqual(table.getCellByPosition(1, 4).getValue(), 100.0)   # 2022-Q1 = 100
-        self.assertFalse(self.doc.NamedRanges.hasByName("Lintel_r1_table_mean"))  # mean left out
+        self.assertFalse(self.doc.NamedRanges.hasByName("Lintel_r1_all_mean"))  # mean left out
         # Update report on the active report sheet rebuilds it in place.
         press(win, "btnUpdate")
         self.assertTrue(win.getControl("txtStatus").Text.startswith("Report West:"))

@@ -26,6 +26,8 @@ struct SheetData {
     // Days to add to the document's serials to count from 1899-12-30 (1462 in a document
     // counting from 1904-01-01): date cells are read and serials written in the document's own.
     double dateOffset = 0.0;
+    // Number format of the price column as the sheet shows it (its currency), for money cells.
+    std::string priceFormat = "#,##0";
 };
 
 struct CellWrite {
@@ -38,6 +40,10 @@ struct CellWrite {
     std::string format;       // number format code, or empty
     bool bold = false;
     double charHeight = 0.0;  // 0 = default
+    bool wrap = false;        // wrap the text in the cell
+    int mergeCols = 0;        // > 1: merge with the cells to its right (a text across the page)
+    bool rule = false;        // a thin line below (headings)
+    bool center = false;      // centred in the cell
     int block = -1;           // the block it belongs to (ReportPlan::blocks)
     std::string setting;      // an editable settings cell: the report setting it holds
                               // ("base", "level", "freq"); Update reads it back
@@ -53,13 +59,25 @@ struct PlanBlock {
 
 struct ChartSpec {
     enum class Type { Line, Bar };
-    std::string name;   // short key ("levels"); the builder makes it unique in the document
+    std::string name;   // short key ("quoted"); the builder makes it unique in the document
     std::string title;
     Type type = Type::Line;
-    // One block: first column categories (periods or method names), first row series names.
-    int row = 0, col = 0, rows = 0, cols = 0;
+    // The data: one block (first column the periods, first row the series names), or several
+    // column ranges of equal height read side by side (the first one the periods).
+    std::vector<Rect> ranges;
+    int row = 0, col = 0, rows = 0, cols = 0;  // the first range (kept for tests and docs)
     int anchorRow = 0, anchorCol = 0;  // cell at the chart's top-left corner
     int widthMm = 150, heightMm = 75;
+    int offsetMm = 0;                  // to the right of the anchor cell's left edge
+    int emphasis = 0;                  // the series drawn thickest (-1: none)
+    std::string yTitle;                // axis title with the unit
+    std::vector<int> bandSeries;       // series drawn as a band around the first one
+    bool legend = true;                // a compact legend below the plot
+    bool small = false;                // a small multiple: small fonts, no axis titles
+    bool commonScale = false;          // every small multiple on one value scale
+    bool money = false;                // values in the sales' currency
+    std::string freq = "M";            // the period axis: labels at years (M) or quarters (Q)
+    int periods = 0;
 };
 
 struct ReportPlan {
@@ -71,8 +89,12 @@ struct ReportPlan {
     // after calculation means the method failed (the builder reports it).
     std::vector<std::pair<std::string, std::pair<int, int>>> methodCells;
     std::vector<ChartSpec> charts;
-    // Print area (0-based, inclusive): title, settings, comparison, charts and the tables.
+    // Print area (0-based): the client pages, rows 0 .. printRows - 1, columns 0 .. printCols - 1;
+    // a page starts at each of pageBreakRows.
     int printRows = 0, printCols = 0;
+    std::vector<int> pageBreakRows;
+    std::vector<int> columnWidthsMm;  // widths of the first columns (the printed page's)
+    std::vector<std::pair<int, double>> rowHeightsMm;  // row, height (mm): the printed pages' rows
     std::size_t salesUsed = 0;
     int periods = 0;
     std::vector<std::string> warnings;
@@ -83,6 +105,10 @@ struct ReportPlan {
 // keeps no sale, or a method lacks the columns it needs.
 ReportPlan planReport(const ReportSettings& settings, const SheetData& data);
 
+// The function a report method's tables call ("INDEXMEDIAN" ...).
+const char* methodFunction(Method m);
+// A sheet name as formulas write it: as is, or quoted ('My sales').
+std::string quoteSheet(const std::string& sheet);
 // "A", "B", ..., "Z", "AA" ... for a 0-based column.
 std::string columnName(int col);
 // An absolute reference such as $'My sales'.$B$2:$B$100.

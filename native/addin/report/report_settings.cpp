@@ -89,6 +89,11 @@ std::string ReportSettings::serialize() const {
     for (const auto& [k, v] : advanced)
         if (!v.empty()) o << "options." << k << "=" << v << "\n";
     for (const auto& s : segment) o << "segment." << s.column << "=" << joinList(s.values) << "\n";
+    o << "segments=" << joinList(segmentColumns) << "\n";
+    o << "segmentmin=" << segmentMin << "\n";
+    o << "maxsegments=" << maxSegments << "\n";
+    if (!segmentList.empty()) o << "segmentlist=" << joinList(segmentList) << "\n";
+    o << "quote=" << quote << "\n";
     o << "partial=" << (includePartial ? "include" : "exclude") << "\n";
     o << "thin=" << thin << "\n";
     o << "sheet=" << sheetName << "\n";
@@ -119,6 +124,32 @@ ReportSettings ReportSettings::parse(const std::string& text) {
         else if (key == "base") s.baseDate = value;
         else if (key == "sheet") s.sheetName = value;
         else if (key == "report") s.reportId = value;
+        else if (key == "segments") s.segmentColumns = splitList(value);
+        else if (key == "segmentlist") {
+            s.segmentList = splitList(value);
+            if (s.segmentList.size() > 12)
+                throw InputError(fmt::format("report setting segmentlist names {} segments; the client page holds 12 "
+                                             "besides the whole scope: build a second report for the others",
+                                             s.segmentList.size()));
+        }
+        else if (key == "quote") {
+            bool ok = value == "auto";
+            for (Method m : allMethods()) ok = ok || value == methodKey(m);
+            if (!ok || value == "refhome")
+                throw InputError(fmt::format(
+                    "report setting quote must be auto, median, mean, mix, hedonic or repeat, got \"{}\"", value));
+            s.quote = value;
+        } else if (key == "segmentmin" || key == "maxsegments") {
+            char* end = nullptr;
+            const long n = std::strtol(value.c_str(), &end, 10);
+            if (value.empty() || *end || n < 1 || n > 1000000)
+                throw InputError(fmt::format("report setting {} must be a whole number of at least 1, got \"{}\"", key, value));
+            if (key == "maxsegments" && n > 12)
+                throw InputError(fmt::format("report setting maxsegments is at most 12 (the segments the client page "
+                                             "holds besides the whole market), got {}; build a second report for the "
+                                             "others with segmentlist=", n));
+            (key == "segmentmin" ? s.segmentMin : s.maxSegments) = static_cast<int>(n);
+        }
         else if (key == "partial") {
             if (value != "include" && value != "exclude" && !value.empty())
                 throw InputError(fmt::format("report setting partial must be include or exclude, got \"{}\"", value));

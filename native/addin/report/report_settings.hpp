@@ -29,7 +29,16 @@ struct ReportSettings {
     std::string changedColumn;  // optional: renovated / changed flag
     std::vector<std::string> characteristics;  // for hedonic and reference home
     std::vector<std::string> strata;           // for the mix-adjusted median
-    std::vector<SegmentFilter> segment;        // empty = all sales
+    std::vector<SegmentFilter> segment;        // the scope of the report; empty = all sales
+    // Segments reported one by one beside the whole scope: every combination of these
+    // columns' values (labels compared cleaned: trimmed, case folded) with at least
+    // segmentMin sales, most sales first, at most maxSegments; or the listed ones.
+    std::vector<std::string> segmentColumns;
+    int segmentMin = 120;
+    int maxSegments = 12;
+    std::vector<std::string> segmentList;  // "Varnholt/flat" per entry (values in column order)
+    std::string quote = "auto";  // quote: the measure the summary quotes: "auto" (the best by
+                                 // INDEXBACKTEST where available) or a method key
     std::string freq = "M";
     std::string baseDate;                      // ISO date; empty = first period
     double level = 0.95;

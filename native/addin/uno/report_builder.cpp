@@ -17,6 +17,20 @@
 #include <com/sun/star/beans/PropertyAttribute.hpp>
 #include <com/sun/star/beans/XPropertyContainer.hpp>
 #include <com/sun/star/beans/XPropertySet.hpp>
+#include <com/sun/star/chart/ChartAxisLabelPosition.hpp>
+#include <com/sun/star/chart/ChartAxisType.hpp>
+#include <com/sun/star/chart/ChartLegendPosition.hpp>
+#include <com/sun/star/chart/ChartSymbolType.hpp>
+#include <com/sun/star/chart/TimeIncrement.hpp>
+#include <com/sun/star/chart/TimeInterval.hpp>
+#include <com/sun/star/chart/TimeUnit.hpp>
+#include <com/sun/star/chart/X3DDisplay.hpp>
+#include <com/sun/star/chart/XAxisXSupplier.hpp>
+#include <com/sun/star/chart/XAxisYSupplier.hpp>
+#include <com/sun/star/drawing/DashStyle.hpp>
+#include <com/sun/star/drawing/FillStyle.hpp>
+#include <com/sun/star/drawing/LineDash.hpp>
+#include <com/sun/star/drawing/LineStyle.hpp>
 #include <com/sun/star/chart/XChartDocument.hpp>
 #include <com/sun/star/chart/XDiagram.hpp>
 #include <com/sun/star/container/XIndexAccess.hpp>
@@ -33,11 +47,20 @@
 #include <com/sun/star/sheet/XNamedRanges.hpp>
 #include <com/sun/star/sheet/XSheetCellRanges.hpp>
 #include <com/sun/star/sheet/XSheetOperation.hpp>
+#include <com/sun/star/table/BorderLine2.hpp>
+#include <com/sun/star/table/CellHoriJustify.hpp>
 #include <com/sun/star/table/CellAddress.hpp>
+#include <com/sun/star/util/XMergeable.hpp>
 #include <com/sun/star/table/CellContentType.hpp>
 #include <com/sun/star/frame/Desktop.hpp>
 #include <com/sun/star/frame/XController.hpp>
 #include <com/sun/star/frame/XDesktop2.hpp>
+#include <com/sun/star/frame/XStorable.hpp>
+#include <com/sun/star/sheet/XSpreadsheets2.hpp>
+#include <com/sun/star/sheet/XSheetPageBreak.hpp>
+#include <com/sun/star/sheet/XUsedAreaCursor.hpp>
+#include <com/sun/star/util/XCloseable.hpp>
+#include <com/sun/star/util/Date.hpp>
 #include <com/sun/star/frame/XFrame.hpp>
 #include <com/sun/star/frame/XModel.hpp>
 #include <com/sun/star/lang/Locale.hpp>
@@ -68,10 +91,15 @@
 #include <com/sun/star/text/XText.hpp>
 #include <com/sun/star/uno/XComponentContext.hpp>
 #include <com/sun/star/util/Date.hpp>
+#include <com/sun/star/chart2/XChartDocument.hpp>
+#include <com/sun/star/chart2/XChartTypeContainer.hpp>
+#include <com/sun/star/chart2/XCoordinateSystemContainer.hpp>
+#include <com/sun/star/chart2/XDataSeriesContainer.hpp>
 #include <com/sun/star/util/XNumberFormats.hpp>
 #include <com/sun/star/util/XNumberFormatsSupplier.hpp>
 
 #include <algorithm>
+#include <cmath>
 #include <map>
 #include <optional>
 #include <set>
@@ -80,6 +108,7 @@
 
 #include "diagnostics.hpp"
 #include "periods.hpp"
+#include "inputs.hpp"
 #include "report_plan.hpp"
 #include "text.hpp"
 #include "uno_cells.hpp"
@@ -142,12 +171,30 @@ public:
         Reference<css::beans::XPropertySet> props(range, UNO_QUERY_THROW);
         if (!w.format.empty()) props->setPropertyValue("NumberFormat", Any(formatKey(w.format)));
         if (w.bold) props->setPropertyValue("CharWeight", Any(css::awt::FontWeight::BOLD));
+        if (w.wrap) props->setPropertyValue("IsTextWrapped", Any(true));
+        if (w.center) props->setPropertyValue("HoriJustify", Any(css::table::CellHoriJustify_CENTER));
+        if (w.rule) {
+            css::table::BorderLine2 line;
+            line.Color = 0x808080;
+            line.OuterLineWidth = 18;
+            line.LineWidth = 18;
+            props->setPropertyValue("BottomBorder2", Any(line));
+        }
+        if (w.mergeCols > 1) {
+            Reference<css::util::XMergeable> m(sheet->getCellRangeByPosition(w.col, w.row, w.col + w.mergeCols - 1, w.row),
+                                               UNO_QUERY);
+            if (m.is()) m->merge(true);
+        }
         if (w.charHeight > 0) props->setPropertyValue("CharHeight", Any(static_cast<float>(w.charHeight)));
     }
 
-    // Chart object names are unique in the whole document: "Lintel_r2_levels".
+    // Chart object names are unique in the whole document: "Lintel_r2_quoted". The look is
+    // our own: white plot, light grid, a palette that stays apart in grey and for the common
+    // colour-vision deficiencies (Okabe & Ito's set) with a line pattern per series, period
+    // labels below the plot at years (monthly) or quarter starts, compact legends below.
     std::string chart(const Reference<css::sheet::XSpreadsheet>& sheet, sal_Int16 sheetIndex,
-                      const report::ChartSpec& c, const std::string& reportId) {
+                      const report::ChartSpec& c, const std::string& reportId,
+                      std::pair<double, double> scale) {
         Reference<css::table::XTableChartsSupplier> tcs(sheet, UNO_QUERY_THROW);
         Reference<css::table::XTableCharts> charts = tcs->getCharts();
         const OUString name = ustr(fmt::format("Lintel_{}_{}", reportId, c.name));
@@ -155,25 +202,134 @@ public:
         Reference<css::beans::XPropertySet> anchor(sheet->getCellByPosition(c.anchorCol, c.anchorRow), UNO_QUERY_THROW);
         css::awt::Point pos;
         anchor->getPropertyValue("Position") >>= pos;
-        css::awt::Rectangle rect(pos.X, pos.Y, c.widthMm * 100, c.heightMm * 100);
-        css::table::CellRangeAddress addr(sheetIndex, c.col, c.row, c.col + c.cols - 1, c.row + c.rows - 1);
-        Sequence<css::table::CellRangeAddress> ranges(1);
-        ranges.getArray()[0] = addr;
+        css::awt::Rectangle rect(pos.X + c.offsetMm * 100, pos.Y, c.widthMm * 100, c.heightMm * 100);
+        Sequence<css::table::CellRangeAddress> ranges(static_cast<sal_Int32>(c.ranges.size()));
+        for (std::size_t i = 0; i < c.ranges.size(); ++i) {
+            const report::Rect& r = c.ranges[i];
+            ranges.getArray()[i] = css::table::CellRangeAddress(sheetIndex, r.col0, r.row0, r.col1, r.row1);
+        }
         charts->addNewByName(name, rect, ranges, true, true);
         Reference<css::document::XEmbeddedObjectSupplier> eos(charts->getByName(name), UNO_QUERY_THROW);
         Reference<css::chart::XChartDocument> chart(eos->getEmbeddedObject(), UNO_QUERY_THROW);
         Reference<css::lang::XMultiServiceFactory> factory(chart, UNO_QUERY_THROW);
-        const char* kind = c.type == report::ChartSpec::Type::Bar ? "com.sun.star.chart.BarDiagram"
-                                                                  : "com.sun.star.chart.LineDiagram";
-        chart->setDiagram(Reference<css::chart::XDiagram>(factory->createInstance(OUString::createFromAscii(kind)), UNO_QUERY_THROW));
+        const bool bar = c.type == report::ChartSpec::Type::Bar;
+        chart->setDiagram(Reference<css::chart::XDiagram>(
+            factory->createInstance(bar ? OUString("com.sun.star.chart.BarDiagram") : OUString("com.sun.star.chart.LineDiagram")),
+            UNO_QUERY_THROW));
+        Reference<css::chart::XDiagram> diagram = chart->getDiagram();
         Reference<css::beans::XPropertySet> cp(chart, UNO_QUERY_THROW);
+        const float small = c.small ? 7.f : 8.f;
         cp->setPropertyValue("HasMainTitle", Any(true));
         Reference<css::beans::XPropertySet> title(chart->getTitle(), UNO_QUERY_THROW);
         title->setPropertyValue("String", Any(ustr(c.title)));
-        title->setPropertyValue("CharHeight", Any(static_cast<float>(11)));
-        // A legend names the methods; a chart of one series needs none.
-        cp->setPropertyValue("HasLegend", Any(c.cols > 2 || (c.type == report::ChartSpec::Type::Line && c.cols > 1)));
+        title->setPropertyValue("CharHeight", Any(c.small ? 8.f : 10.f));
+        title->setPropertyValue("CharWeight", Any(css::awt::FontWeight::BOLD));
+        int series = 0;
+        for (const auto& r : c.ranges) series += r.col1 - r.col0 + 1;
+        series -= 1;  // the first column holds the periods
+        const bool legend = c.legend && series > 1;
+        cp->setPropertyValue("HasLegend", Any(legend));
+        if (legend) {
+            Reference<css::beans::XPropertySet> lg(chart->getLegend(), UNO_QUERY_THROW);
+            lg->setPropertyValue("Alignment", Any(css::chart::ChartLegendPosition_BOTTOM));
+            lg->setPropertyValue("CharHeight", Any(small));
+            lg->setPropertyValue("LineStyle", Any(css::drawing::LineStyle_NONE));
+            lg->setPropertyValue("FillStyle", Any(css::drawing::FillStyle_NONE));
+        }
+        Reference<css::beans::XPropertySet> dp(diagram, UNO_QUERY_THROW);
+        try {
+            Reference<css::chart::X3DDisplay> walls(diagram, UNO_QUERY_THROW);
+            Reference<css::beans::XPropertySet> wall(walls->getWall(), UNO_QUERY_THROW);
+            wall->setPropertyValue("FillStyle", Any(css::drawing::FillStyle_NONE));
+            wall->setPropertyValue("LineColor", Any(static_cast<sal_Int32>(0xBBBBBB)));
+        } catch (const css::uno::Exception&) {
+        }
+        // The period axis.
+        Reference<css::chart::XAxisXSupplier> xs(diagram, UNO_QUERY_THROW);
+        Reference<css::beans::XPropertySet> x = xs->getXAxis();
+        x->setPropertyValue("CharHeight", Any(small));
+        x->setPropertyValue("LabelPosition", Any(css::chart::ChartAxisLabelPosition_OUTSIDE_START));
+        x->setPropertyValue("TextCanOverlap", Any(false));
+        {
+            const bool years = c.freq == "Y" || (c.freq == "M" && c.periods > 30) || (c.freq == "Q" && c.periods > 16);
+            // Labels at whole years (or quarter starts on a short quarterly axis), fewer on a
+            // narrow chart: about one label per 22 mm.
+            const int spanYears = std::max(1, c.periods / (c.freq == "M" ? 12 : c.freq == "Q" ? 4 : 1));
+            const int room = std::max(2, c.widthMm / 22);
+            const int step = years ? std::max(1, (spanYears + room - 1) / room) : 3;
+            x->setPropertyValue("AxisType", Any(css::chart::ChartAxisType::DATE));
+            css::chart::TimeInterval major(step, years ? css::chart::TimeUnit::YEAR : css::chart::TimeUnit::MONTH);
+            css::chart::TimeIncrement inc;
+            inc.MajorTimeInterval <<= major;
+            x->setPropertyValue("TimeIncrement", Any(inc));
+            x->setPropertyValue("NumberFormat", Any(formatKey(years ? "YYYY" : "YYYY-MM")));
+            x->setPropertyValue("LinkNumberFormatToSource", Any(false));
+            x->setPropertyValue("TextRotation", Any(static_cast<sal_Int32>(0)));
+        }
+        // The value axis.
+        Reference<css::chart::XAxisYSupplier> ys(diagram, UNO_QUERY_THROW);
+        Reference<css::beans::XPropertySet> y = ys->getYAxis();
+        y->setPropertyValue("CharHeight", Any(small));
+        y->setPropertyValue("NumberFormat", Any(formatKey(c.money ? "#,##0" : "0")));
+        y->setPropertyValue("LinkNumberFormatToSource", Any(false));
+        if (scale.first < scale.second) {
+            y->setPropertyValue("AutoMin", Any(false));
+            y->setPropertyValue("AutoMax", Any(false));
+            y->setPropertyValue("Min", Any(scale.first));
+            y->setPropertyValue("Max", Any(scale.second));
+        }
+        if (!c.yTitle.empty() && !c.small) {
+            dp->setPropertyValue("HasYAxisTitle", Any(true));
+            Reference<css::beans::XPropertySet> yt(ys->getYAxisTitle(), UNO_QUERY_THROW);
+            yt->setPropertyValue("String", Any(ustr(c.yTitle)));
+            yt->setPropertyValue("CharHeight", Any(small));
+        }
+        dp->setPropertyValue("HasYAxisGrid", Any(true));
+        Reference<css::beans::XPropertySet>(ys->getYMainGrid(), UNO_QUERY_THROW)
+            ->setPropertyValue("LineColor", Any(static_cast<sal_Int32>(0xE4E4E4)));
+        // Series: colour and pattern; a band as thin dashed lines in a lighter shade.
+        // Through the chart2 model: the old API's row properties do not reach a line's style.
+        Reference<css::chart2::XChartDocument> chart2(chart, UNO_QUERY_THROW);
+        Reference<css::chart2::XCoordinateSystemContainer> csc(chart2->getFirstDiagram(), UNO_QUERY_THROW);
+        int i = 0;
+        for (const auto& cs : csc->getCoordinateSystems()) {
+            Reference<css::chart2::XChartTypeContainer> ctc(cs, UNO_QUERY_THROW);
+            for (const auto& ct : ctc->getChartTypes()) {
+                Reference<css::chart2::XDataSeriesContainer> dsc(ct, UNO_QUERY_THROW);
+                for (const auto& s : dsc->getDataSeries()) {
+                    Reference<css::beans::XPropertySet> sp(s, UNO_QUERY_THROW);
+                    styleSeries(sp, i++, bar, c.bandSeries, c.emphasis);
+                }
+            }
+        }
         return utf8(name);
+    }
+
+    static void styleSeries(const Reference<css::beans::XPropertySet>& sp, int i, bool bar, const std::vector<int>& bands,
+                            int emphasis) {
+        static const sal_Int32 palette[] = {0x0072B2, 0xD55E00, 0x009E73, 0xCC79A7, 0xE69F00, 0x56B4E9, 0x000000};
+        const bool band = std::find(bands.begin(), bands.end(), i) != bands.end();
+        if (bar) {
+            sp->setPropertyValue("Color", Any(static_cast<sal_Int32>(0x6D9CC2)));
+            sp->setPropertyValue("BorderStyle", Any(css::drawing::LineStyle_NONE));
+            return;
+        }
+        sp->setPropertyValue("Color", Any(band ? static_cast<sal_Int32>(0x7FB8D8) : palette[i % 7]));
+        sp->setPropertyValue("LineWidth", Any(static_cast<sal_Int32>(band ? 18 : (i == emphasis ? 55 : 25))));
+        const int pattern = band ? 1 : i % 4;  // solid, dash, dot, dash-dot
+        if (pattern == 0) {
+            sp->setPropertyValue("LineStyle", Any(css::drawing::LineStyle_SOLID));
+        } else {
+            css::drawing::LineDash dash;
+            dash.Style = css::drawing::DashStyle_RECTRELATIVE;
+            dash.Dots = static_cast<sal_Int16>(pattern == 1 ? 0 : 1);
+            dash.DotLen = 100;
+            dash.Dashes = static_cast<sal_Int16>(pattern == 2 ? 0 : 1);
+            dash.DashLen = 400;
+            dash.Distance = 200;
+            sp->setPropertyValue("LineStyle", Any(css::drawing::LineStyle_DASH));
+            sp->setPropertyValue("LineDash", Any(dash));
+        }
     }
 
 private:
@@ -295,6 +451,33 @@ std::string reportSheetName(const Reference<css::sheet::XSpreadsheetDocument>& d
     throw InputError(fmt::format("no free sheet name for the report \"{}\"", wanted));
 }
 
+// The number format the sheet shows its prices in (its currency), for the report's money
+// cells; "#,##0" when the prices are in the standard format.
+std::string priceFormat(const Reference<css::sheet::XSpreadsheetDocument>& doc, const report::SheetData& data,
+                        const std::string& priceColumn) {
+    try {
+        for (std::size_t c = 0; c < data.cells.cols; ++c) {
+            if (addin::cellKey(data.cells.at(0, c)) != priceColumn || data.cells.rows < 2) continue;
+            Reference<css::container::XIndexAccess> sheets(doc->getSheets(), UNO_QUERY_THROW);
+            Reference<css::sheet::XSpreadsheets> byName = doc->getSheets();
+            Reference<css::sheet::XSpreadsheet> sheet(byName->getByName(ustr(data.sheet)), UNO_QUERY_THROW);
+            Reference<css::beans::XPropertySet> cell(
+                sheet->getCellByPosition(data.firstCol + static_cast<sal_Int32>(c), data.firstRow + 1), UNO_QUERY_THROW);
+            sal_Int32 key = 0;
+            cell->getPropertyValue("NumberFormat") >>= key;
+            Reference<css::util::XNumberFormatsSupplier> nfs(doc, UNO_QUERY_THROW);
+            Reference<css::beans::XPropertySet> f = nfs->getNumberFormats()->getByKey(key);
+            OUString code;
+            f->getPropertyValue("FormatString") >>= code;
+            const std::string s = utf8(code);
+            if (s.empty() || s == "General" || s == "Standard" || s == "0") return "#,##0";
+            return s;
+        }
+    } catch (const css::uno::Exception&) {
+    }
+    return "#,##0";
+}
+
 // The smallest "r<n>" no report of the document uses.
 std::string freeReportId(const Reference<css::sheet::XSpreadsheetDocument>& doc) {
     Reference<css::document::XDocumentPropertiesSupplier> dps(doc, UNO_QUERY_THROW);
@@ -336,14 +519,29 @@ void setUpPage(const Reference<css::sheet::XSpreadsheetDocument>& doc,
         style->setPropertyValue("Height", Any(w));
     }
     style->setPropertyValue("IsLandscape", Any(true));
+    // Fits A4 and Letter landscape: one page wide, pages as the report breaks them.
     style->setPropertyValue("ScaleToPagesX", Any(static_cast<sal_Int16>(1)));
     style->setPropertyValue("ScaleToPagesY", Any(static_cast<sal_Int16>(0)));
+    for (const char* margin : {"LeftMargin", "RightMargin", "TopMargin", "BottomMargin"})
+        style->setPropertyValue(OUString::createFromAscii(margin), Any(static_cast<sal_Int32>(1000)));
+    style->setPropertyValue("HeaderIsOn", Any(false));
+    style->setPropertyValue("FooterIsOn", Any(true));
+    style->setPropertyValue("CenterHorizontally", Any(true));
     Reference<css::beans::XPropertySet> sp(sheet, UNO_QUERY_THROW);
     sp->setPropertyValue("PageStyle", Any(name));
-    // Wider label and value columns for the settings block.
+    // The printed page's columns and the rows that need more height.
     Reference<css::table::XColumnRowRange> crr(sheet, UNO_QUERY_THROW);
     Reference<css::container::XIndexAccess> cols(crr->getColumns(), UNO_QUERY_THROW);
-    Reference<css::beans::XPropertySet>(cols->getByIndex(0), UNO_QUERY_THROW)->setPropertyValue("Width", Any(static_cast<sal_Int32>(3600)));
+    for (std::size_t i = 0; i < plan.columnWidthsMm.size(); ++i)
+        Reference<css::beans::XPropertySet>(cols->getByIndex(static_cast<sal_Int32>(i)), UNO_QUERY_THROW)
+            ->setPropertyValue("Width", Any(static_cast<sal_Int32>(plan.columnWidthsMm[i] * 100)));
+    Reference<css::container::XIndexAccess> rows(crr->getRows(), UNO_QUERY_THROW);
+    for (const auto& [row, mm] : plan.rowHeightsMm)
+        Reference<css::beans::XPropertySet>(rows->getByIndex(row), UNO_QUERY_THROW)
+            ->setPropertyValue("Height", Any(static_cast<sal_Int32>(std::lround(mm * 100))));
+    for (int row : plan.pageBreakRows)
+        Reference<css::beans::XPropertySet>(rows->getByIndex(row), UNO_QUERY_THROW)
+            ->setPropertyValue("IsStartOfNewPage", Any(true));
     Reference<css::sheet::XPrintAreas> pa(sheet, UNO_QUERY_THROW);
     Reference<css::sheet::XCellRangeAddressable> ra(
         sheet->getCellRangeByPosition(0, 0, plan.printCols - 1, plan.printRows - 1), UNO_QUERY_THROW);
@@ -454,6 +652,48 @@ private:
     Reference<css::sheet::XSpreadsheet> sheet_;
 };
 
+// The value scale of each chart: its series' values (after calculation) with a margin, on
+// round numbers; one scale for all small multiples; bars (counts) start at 0 by themselves.
+std::vector<std::pair<double, double>> chartScales(const Reference<css::sheet::XSpreadsheet>& sheet,
+                                                   const report::ReportPlan& plan) {
+    std::vector<std::pair<double, double>> out(plan.charts.size(), {0.0, 0.0});
+    double commonLo = 1e300, commonHi = -1e300;
+    std::vector<std::pair<double, double>> raw(plan.charts.size(), {1e300, -1e300});
+    for (std::size_t i = 0; i < plan.charts.size(); ++i) {
+        const report::ChartSpec& c = plan.charts[i];
+        if (c.type == report::ChartSpec::Type::Bar) continue;
+        for (std::size_t k = 0; k < c.ranges.size(); ++k) {
+            const report::Rect& r = c.ranges[k];
+            const int col0 = k == 0 ? r.col0 + 1 : r.col0;  // the first column holds the periods
+            if (col0 > r.col1) continue;
+            Reference<css::sheet::XCellRangeData> data(sheet->getCellRangeByPosition(col0, r.row0 + 1, r.col1, r.row1),
+                                                      UNO_QUERY_THROW);
+            for (const auto& row : data->getDataArray())
+                for (const auto& v : row) {
+                    double x = 0;
+                    if (v.getValueTypeClass() == css::uno::TypeClass_DOUBLE && (v >>= x) && std::isfinite(x)) {
+                        raw[i].first = std::min(raw[i].first, x);
+                        raw[i].second = std::max(raw[i].second, x);
+                    }
+                }
+        }
+        if (c.commonScale) {
+            commonLo = std::min(commonLo, raw[i].first);
+            commonHi = std::max(commonHi, raw[i].second);
+        }
+    }
+    auto nice = [](double lo, double hi) -> std::pair<double, double> {
+        if (!(lo <= hi) || lo > 1e299) return {0.0, 0.0};
+        const double span = std::max(hi - lo, std::max(std::fabs(hi), 1.0) * 0.02);
+        const double step = std::pow(10.0, std::floor(std::log10(span / 4)));
+        const double unit = span / step > 20 ? 5 * step : span / step > 8 ? 2 * step : step;
+        return {std::floor((lo - 0.05 * span) / unit) * unit, std::ceil((hi + 0.05 * span) / unit) * unit};
+    };
+    for (std::size_t i = 0; i < plan.charts.size(); ++i)
+        out[i] = plan.charts[i].commonScale ? nice(commonLo, commonHi) : nice(raw[i].first, raw[i].second);
+    return out;
+}
+
 // Edit > Undo takes a build or an update back in one step.
 class UndoStep {
 public:
@@ -493,6 +733,30 @@ void readEditedSettings(const Reference<css::sheet::XSpreadsheet>& sheet, const 
             if (!f) throw InputError(fmt::format("the frequency in the settings block must be M, Q or Y, got \"{}\"", text));
             settings.freq = frequencyCode(*f);
         }
+    }
+}
+
+// The cells the user fills in (the comparables and their valuation date), by their setting,
+// in the order the report wrote them: an update writes them back where the new layout has
+// them.
+std::map<std::string, std::vector<std::string>> readInputs(const Reference<css::sheet::XSpreadsheet>& sheet,
+                                                           const report::ReportRecord& record) {
+    std::map<std::string, std::vector<std::string>> out;
+    for (const auto& e : record.editable)
+        if (e.setting == "input" || e.setting == "valuation")
+            out[e.setting].push_back(utf8(sheet->getCellByPosition(e.col, e.row)->getFormula()));
+    return out;
+}
+
+void restoreInputs(const Reference<css::sheet::XSpreadsheet>& sheet, const report::ReportPlan& plan,
+                   const std::map<std::string, std::vector<std::string>>& inputs) {
+    std::map<std::string, std::size_t> next;
+    for (const auto& w : plan.cells) {
+        const auto it = inputs.find(w.setting);
+        if (it == inputs.end()) continue;
+        const std::size_t i = next[w.setting]++;
+        if (i < it->second.size() && !it->second[i].empty())
+            sheet->getCellByPosition(w.col, w.row)->setFormula(ustr(it->second[i]));
     }
 }
 
@@ -642,8 +906,9 @@ std::string buildReport(const Reference<css::sheet::XSpreadsheetDocument>& doc, 
     // The sales table grows with the data: the region around its header row is read, so rows
     // added below it are taken in.
     std::string usedRange;
-    const report::SheetData data = readSalesTable(doc, settings.dataRange, true, usedRange);
+    report::SheetData data = readSalesTable(doc, settings.dataRange, true, usedRange);
     settings.dataRange = usedRange;
+    data.priceFormat = priceFormat(doc, data, settings.priceColumn);
     report::ReportPlan plan = report::planReport(settings, data);
     if (progress.is()) progress->setValue(20);
 
@@ -663,6 +928,7 @@ std::string buildReport(const Reference<css::sheet::XSpreadsheetDocument>& doc, 
         }
     }
     Reference<css::sheet::XSpreadsheet> sheet;
+    std::map<std::string, std::vector<std::string>> inputs;  // the user's inputs, kept
     if (found) {
         // In place: nothing the user typed may be in the way.
         sheet.set(sheets->getByName(sheetName), UNO_QUERY_THROW);
@@ -671,6 +937,7 @@ std::string buildReport(const Reference<css::sheet::XSpreadsheetDocument>& doc, 
         UnoSheetView view(sheet);
         const std::string conflict = report::findUserCell(found->record, next, view, target);
         if (!conflict.empty()) throw InputError(conflict);
+        inputs = readInputs(sheet, found->record);
         removeOld(sheet, found->record);
     } else {
         if (sheets->hasByName(sheetName)) {
@@ -687,11 +954,14 @@ std::string buildReport(const Reference<css::sheet::XSpreadsheetDocument>& doc, 
         applier.apply(sheet, plan.cells[i]);
         if (progress.is() && i % 200 == 0) progress->setValue(20 + static_cast<sal_Int32>(60 * i / n));
     }
+    restoreInputs(sheet, plan, inputs);
     setUpPage(doc, sheet, plan);
     Reference<css::sheet::XCalculatable> calc(doc, UNO_QUERY);
     if (calc.is()) calc->calculateAll();
     std::vector<std::string> chartNames;
-    for (const auto& c : plan.charts) chartNames.push_back(applier.chart(sheet, position, c, settings.reportId));
+    const auto scales = chartScales(sheet, plan);
+    for (std::size_t i = 0; i < plan.charts.size(); ++i)
+        chartNames.push_back(applier.chart(sheet, position, plan.charts[i], settings.reportId, scales[i]));
     const std::vector<std::string> names =
         defineNames(doc, target, position, plan, settings.reportId, found ? &found->record : nullptr);
     if (progress.is()) progress->setValue(95);
@@ -733,6 +1003,118 @@ std::string buildReport(const Reference<css::sheet::XSpreadsheetDocument>& doc, 
 
 namespace {
 
+}  // namespace
+
+// The printed layout of a report sheet onto its copy in another document: the page style (by
+// its properties), the print area and the manual page breaks.
+void copyPageLayout(const Reference<css::sheet::XSpreadsheetDocument>& doc, const std::string& sheetName,
+                    const Reference<css::sheet::XSpreadsheetDocument>& copy,
+                    const Reference<css::sheet::XSpreadsheet>& target) {
+    Reference<css::sheet::XSpreadsheet> source(doc->getSheets()->getByName(ustr(sheetName)), UNO_QUERY_THROW);
+    OUString styleName;
+    Reference<css::beans::XPropertySet>(source, UNO_QUERY_THROW)->getPropertyValue("PageStyle") >>= styleName;
+    Reference<css::style::XStyleFamiliesSupplier> from(doc, UNO_QUERY_THROW), to(copy, UNO_QUERY_THROW);
+    Reference<css::container::XNameAccess> fromPages(from->getStyleFamilies()->getByName("PageStyles"), UNO_QUERY_THROW);
+    Reference<css::container::XNameContainer> toPages(to->getStyleFamilies()->getByName("PageStyles"), UNO_QUERY_THROW);
+    if (!toPages->hasByName(styleName)) {
+        Reference<css::lang::XMultiServiceFactory> f(copy, UNO_QUERY_THROW);
+        toPages->insertByName(styleName, Any(f->createInstance("com.sun.star.style.PageStyle")));
+    }
+    Reference<css::beans::XPropertySet> a(fromPages->getByName(styleName), UNO_QUERY_THROW);
+    Reference<css::beans::XPropertySet> b(toPages->getByName(styleName), UNO_QUERY_THROW);
+    for (const char* name : {"Width", "Height", "IsLandscape", "ScaleToPagesX", "ScaleToPagesY", "LeftMargin",
+                             "RightMargin", "TopMargin", "BottomMargin", "HeaderIsOn", "FooterIsOn",
+                             "CenterHorizontally"}) {
+        try {
+            b->setPropertyValue(OUString::createFromAscii(name), a->getPropertyValue(OUString::createFromAscii(name)));
+        } catch (const css::uno::Exception&) {
+        }
+    }
+    Reference<css::beans::XPropertySet>(target, UNO_QUERY_THROW)->setPropertyValue("PageStyle", Any(styleName));
+    Sequence<css::table::CellRangeAddress> areas = Reference<css::sheet::XPrintAreas>(source, UNO_QUERY_THROW)->getPrintAreas();
+    for (sal_Int32 i = 0; i < areas.getLength(); ++i) areas.getArray()[i].Sheet = 0;
+    Reference<css::sheet::XPrintAreas>(target, UNO_QUERY_THROW)->setPrintAreas(areas);
+    Reference<css::sheet::XSheetPageBreak> breaks(source, UNO_QUERY_THROW);
+    Reference<css::table::XColumnRowRange> crr(target, UNO_QUERY_THROW);
+    Reference<css::container::XIndexAccess> rows(crr->getRows(), UNO_QUERY_THROW);
+    for (const auto& br : breaks->getRowPageBreaks())
+        if (br.ManualBreak)
+            Reference<css::beans::XPropertySet>(rows->getByIndex(br.Position), UNO_QUERY_THROW)
+                ->setPropertyValue("IsStartOfNewPage", Any(true));
+}
+
+// A new document holding the report sheet with values in place of formulas (and its charts,
+// formats, print ranges and page style), for readers without Lintel. The report sheet itself
+// is not touched.
+Reference<css::sheet::XSpreadsheetDocument> valuesCopy(const Reference<css::uno::XComponentContext>& ctx,
+                                                        const Reference<css::sheet::XSpreadsheetDocument>& doc,
+                                                        const std::string& sheetName, bool hidden) {
+    if (!findReportOnSheet(doc, sheetName))
+        throw InputError(fmt::format("sheet \"{}\" is not a Lintel report", sheetName));
+    Reference<css::frame::XDesktop2> desktop = css::frame::Desktop::create(ctx);
+    Sequence<css::beans::PropertyValue> load(1);
+    load.getArray()[0].Name = "Hidden";
+    load.getArray()[0].Value <<= hidden;
+    Reference<css::sheet::XSpreadsheetDocument> copy(
+        desktop->loadComponentFromURL("private:factory/scalc", "_blank", 0, load), UNO_QUERY_THROW);
+    try {
+        // The same day count, so date serials mean the same dates.
+        Reference<css::beans::XPropertySet> from(doc, UNO_QUERY_THROW), to(copy, UNO_QUERY_THROW);
+        to->setPropertyValue("NullDate", from->getPropertyValue("NullDate"));
+        Reference<css::sheet::XSpreadsheets2> sheets(copy->getSheets(), UNO_QUERY_THROW);
+        const OUString name = ustr(sheetName);
+        const OUString blank = utf8(copy->getSheets()->getElementNames()[0]) == sheetName ? OUString() :
+                               copy->getSheets()->getElementNames()[0];
+        sheets->importSheet(doc, name, 0);
+        if (!blank.isEmpty()) copy->getSheets()->removeByName(blank);
+        Reference<css::sheet::XSpreadsheet> sheet(copy->getSheets()->getByName(name), UNO_QUERY_THROW);
+        Reference<css::sheet::XSheetCellCursor> cursor = sheet->createCursor();
+        Reference<css::sheet::XUsedAreaCursor> used(cursor, UNO_QUERY_THROW);
+        used->gotoEndOfUsedArea(false);
+        Reference<css::sheet::XCellRangeAddressable> end(cursor, UNO_QUERY_THROW);
+        const css::table::CellRangeAddress a = end->getRangeAddress();
+        Reference<css::table::XCellRange> all = sheet->getCellRangeByPosition(0, 0, a.EndColumn, a.EndRow);
+        Reference<css::sheet::XCellRangeData> data(all, UNO_QUERY_THROW);
+        // The values as the report shows them (the copy cannot compute them: it has no sales).
+        Reference<css::sheet::XSpreadsheet> source(doc->getSheets()->getByName(name), UNO_QUERY_THROW);
+        const Sequence<Sequence<Any>> values =
+            Reference<css::sheet::XCellRangeData>(source->getCellRangeByPosition(0, 0, a.EndColumn, a.EndRow), UNO_QUERY_THROW)
+                ->getDataArray();
+        Reference<css::sheet::XSheetOperation> op(all, UNO_QUERY_THROW);
+        op->clearContents(css::sheet::CellFlags::FORMULA);
+        data->setDataArray(values);
+        copyPageLayout(doc, sheetName, copy, sheet);
+        // The record is the report's, not the copy's.
+        Reference<css::table::XCell> record = sheet->getCellByPosition(0, 80);
+        Reference<css::text::XText>(record, UNO_QUERY_THROW)->setString(OUString());
+    } catch (...) {
+        Reference<css::util::XCloseable> c(copy, UNO_QUERY);
+        if (c.is()) c->close(true);
+        throw;
+    }
+    return copy;
+}
+
+// The report's client pages as a PDF at url (file URL), through a values copy.
+void exportReportPdf(const Reference<css::uno::XComponentContext>& ctx,
+                     const Reference<css::sheet::XSpreadsheetDocument>& doc, const std::string& sheetName,
+                     const std::string& url) {
+    Reference<css::sheet::XSpreadsheetDocument> copy = valuesCopy(ctx, doc, sheetName, true);
+    try {
+        Reference<css::frame::XStorable> st(copy, UNO_QUERY_THROW);
+        Sequence<css::beans::PropertyValue> args(1);
+        args.getArray()[0].Name = "FilterName";
+        args.getArray()[0].Value <<= OUString("calc_pdf_Export");
+        st->storeToURL(ustr(url), args);
+    } catch (...) {
+        Reference<css::util::XCloseable>(copy, UNO_QUERY_THROW)->close(true);
+        throw;
+    }
+    Reference<css::util::XCloseable>(copy, UNO_QUERY_THROW)->close(true);
+}
+
+namespace {
+
 class ReportBuilder : public cppu::WeakImplHelper2<css::task::XJob, css::lang::XServiceInfo> {
 public:
     explicit ReportBuilder(const Reference<css::uno::XComponentContext>& ctx) : ctx_(ctx) {}
@@ -740,7 +1122,8 @@ public:
     Any SAL_CALL execute(const Sequence<css::beans::NamedValue>& args) override {
         try {
             Reference<css::sheet::XSpreadsheetDocument> doc;
-            std::string settings, mode = "build", sheet;
+            std::string settings, mode = "build", sheet, url;
+            bool hidden = false;
             Reference<css::task::XStatusIndicator> progress;
             for (const auto& a : args) {
                 if (a.Name == "Document") a.Value >>= doc;
@@ -748,14 +1131,27 @@ public:
                 else if (a.Name == "Settings") { OUString s; a.Value >>= s; settings = utf8(s); }
                 else if (a.Name == "Mode") { OUString s; a.Value >>= s; mode = utf8(s); }
                 else if (a.Name == "Sheet") { OUString s; a.Value >>= s; sheet = utf8(s); }
+                else if (a.Name == "Url") { OUString s; a.Value >>= s; url = utf8(s); }
+                else if (a.Name == "Hidden") a.Value >>= hidden;
             }
             if (!doc.is()) {
                 Reference<css::frame::XDesktop2> desktop = css::frame::Desktop::create(ctx_);
                 doc.set(desktop->getCurrentComponent(), UNO_QUERY);
             }
             if (!doc.is()) return Any(OUString("Lintel: no spreadsheet document to build the report in"));
+            if (mode == "values" || mode == "pdf") {
+                if (sheet.empty()) return Any(OUString("Lintel: Sheet must name the report sheet"));
+                if (mode == "values") {
+                    valuesCopy(ctx_, doc, sheet, hidden);
+                    return Any(ustr(fmt::format("{}: copied as values into a new document (save it and send it; "
+                                                "it needs no Lintel)", sheet)));
+                }
+                if (url.empty()) return Any(OUString("Lintel: Url must name the PDF file to write"));
+                exportReportPdf(ctx_, doc, sheet, url);
+                return Any(ustr(fmt::format("{}: client pages written to {}", sheet, url)));
+            }
             if (mode != "build" && mode != "update")
-                return Any(OUString("Lintel: Mode must be \"build\" or \"update\""));
+                return Any(OUString("Lintel: Mode must be \"build\", \"update\", \"values\" or \"pdf\""));
             return Any(ustr(buildReport(doc, settings, mode == "update", sheet, progress)));
         } catch (const InputError& e) {
             return Any(ustr(std::string("Lintel: ") + e.what()));

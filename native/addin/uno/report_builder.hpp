@@ -6,6 +6,7 @@
 
 #include <com/sun/star/sheet/XSpreadsheetDocument.hpp>
 #include <com/sun/star/task/XStatusIndicator.hpp>
+#include <com/sun/star/uno/XComponentContext.hpp>
 
 #include "report_plan.hpp"
 
@@ -34,6 +35,19 @@ std::string loadReportSettings(const com::sun::star::uno::Reference<com::sun::st
 // the region around its header cell (new rows pasted below). usedRange is the range read.
 report::SheetData readSalesTable(const com::sun::star::uno::Reference<com::sun::star::sheet::XSpreadsheetDocument>& doc,
                                  const std::string& dataRange, bool growToRegion, std::string& usedRange);
+
+// A new document with the report sheet as values (charts, formats and print ranges kept), for
+// readers without Lintel; the report is not touched. Throws lintel::InputError when the sheet
+// is no report.
+com::sun::star::uno::Reference<com::sun::star::sheet::XSpreadsheetDocument> valuesCopy(
+    const com::sun::star::uno::Reference<com::sun::star::uno::XComponentContext>& ctx,
+    const com::sun::star::uno::Reference<com::sun::star::sheet::XSpreadsheetDocument>& doc,
+    const std::string& sheetName, bool hidden);
+
+// The report's client pages as a PDF file (a file URL), written from a hidden values copy.
+void exportReportPdf(const com::sun::star::uno::Reference<com::sun::star::uno::XComponentContext>& ctx,
+                     const com::sun::star::uno::Reference<com::sun::star::sheet::XSpreadsheetDocument>& doc,
+                     const std::string& sheetName, const std::string& url);
 
 // Days to add to the document's date serials to count from 1899-12-30 (its NullDate).
 double documentDateOffset(const com::sun::star::uno::Reference<com::sun::star::sheet::XSpreadsheetDocument>& doc);

@@ -8,6 +8,10 @@
 #include <cppuhelper/implbase7.hxx>
 #include <cppuhelper/supportsservice.hxx>
 
+#include <com/sun/star/ui/dialogs/ExecutableDialogResults.hpp>
+#include <com/sun/star/ui/dialogs/FilePicker.hpp>
+#include <com/sun/star/ui/dialogs/TemplateDescription.hpp>
+#include <com/sun/star/ui/dialogs/XFilePicker3.hpp>
 #include <com/sun/star/accessibility/XAccessible.hpp>
 #include <com/sun/star/awt/ContainerWindowProvider.hpp>
 #include <com/sun/star/awt/PosSize.hpp>
@@ -111,7 +115,7 @@ public:
         window_ = provider->createContainerWindow(location + "/dialogs/ReportPanel.xdl", OUString(),
                                                   Reference<css::awt::XWindowPeer>(parent_, UNO_QUERY), nullptr);
         controls_.set(window_, UNO_QUERY_THROW);
-        for (const char* b : {"btnSelection", "btnBuild", "btnUpdate", "btnGuide", "btnFormat"}) {
+        for (const char* b : {"btnSelection", "btnBuild", "btnUpdate", "btnGuide", "btnFormat", "btnPdf", "btnValues"}) {
             Reference<css::awt::XButton> button(control(b), UNO_QUERY_THROW);
             button->setActionCommand(OUString::createFromAscii(b));
             button->addActionListener(this);
@@ -190,6 +194,8 @@ public:
             else if (cmd == "btnUpdate") build(true);
             else if (cmd == "btnGuide") openGuide();
             else if (cmd == "btnFormat") formatTable();
+            else if (cmd == "btnPdf") exportPdf();
+            else if (cmd == "btnValues") copyValues();
         });
     }
 
@@ -390,6 +396,8 @@ private:
         select("lstChars", headers_, settings_.characteristics);
         fill("lstStrata", headers_);
         select("lstStrata", headers_, settings_.strata);
+        fill("lstSegBy", headers_);
+        select("lstSegBy", headers_, settings_.segmentColumns);
         fill("lstSegCol", none);
         segmentColumn_ = settings_.segment.empty() ? std::string() : settings_.segment.front().column;
         select("lstSegCol", none, {segmentColumn_.empty() ? kNone : segmentColumn_});
@@ -476,6 +484,7 @@ private:
         settings_.changedColumn = selectedOne("lstChanged", withNone());
         settings_.characteristics = selected("lstChars", headers_);
         settings_.strata = selected("lstStrata", headers_);
+        settings_.segmentColumns = selected("lstSegBy", headers_);
         saveSegmentValues();
         settings_.freq = std::string(1, "MQY"[std::max<sal_Int16>(0, list("lstFreq")->getSelectedItemPos())]);
         settings_.baseDate = text("cmbBase");
@@ -550,6 +559,34 @@ private:
             col->setPropertyValue("NumberFormat", Any(numberFormatKey(doc, f->columns[c].format)));
         }
         status(fmt::format("Formatted the {} table ({} rows).", name, r.EndRow - r.StartRow + 1));
+    }
+
+    // The active sheet, which must be a Lintel report.
+    std::string activeReport() {
+        Reference<css::sheet::XSpreadsheetView> view(frame_->getController(), UNO_QUERY_THROW);
+        const std::string sheet = utf8(Reference<css::container::XNamed>(view->getActiveSheet(), UNO_QUERY_THROW)->getName());
+        if (!reportSettingsOnSheet(document(), sheet))
+            throw InputError("open a report sheet first (the active sheet is no Lintel report)");
+        return sheet;
+    }
+
+    void exportPdf() {
+        const std::string sheet = activeReport();
+        Reference<css::ui::dialogs::XFilePicker3> picker = css::ui::dialogs::FilePicker::createWithMode(
+            ctx_, css::ui::dialogs::TemplateDescription::FILESAVE_AUTOEXTENSION);
+        picker->appendFilter("PDF", "*.pdf");
+        picker->setDefaultName(ustr(sheet + ".pdf"));
+        if (picker->execute() != css::ui::dialogs::ExecutableDialogResults::OK) return;
+        const Sequence<OUString> files = picker->getSelectedFiles();
+        if (!files.hasElements()) return;
+        exportReportPdf(ctx_, document(), sheet, utf8(files[0]));
+        status(fmt::format("{}: client pages written to {}", sheet, utf8(files[0])));
+    }
+
+    void copyValues() {
+        const std::string sheet = activeReport();
+        valuesCopy(ctx_, document(), sheet, false);
+        status(fmt::format("{}: copied as values into a new document; save it and send it (it needs no Lintel).", sheet));
     }
 
     void openGuide() {
