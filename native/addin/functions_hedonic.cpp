@@ -15,6 +15,7 @@
 #include "inputs.hpp"
 #include "label_text.hpp"
 #include "text_keys.hpp"
+#include "smoothing_options.hpp"
 
 namespace lintel::addin {
 
@@ -119,6 +120,7 @@ HomeInput readHome(const Arg& arg, std::size_t header, const NumberFormat& forma
 
 OutTable indexHedonic(const Call& call) {
     const HedonicOptions o = call.options<HedonicOptions>();
+    if (o.smoothed()) return smoothedIndexCells(smoothedHedonicIndex(readInput(call), o), call, false);
     return indexTableCells(hedonicIndex(readInput(call), o), call);
 }
 
@@ -267,6 +269,21 @@ OptionSpec retransformOption() {
                   "exp(residual)) or \"lognormal\" (exp(s^2/2), normal errors).");
 }
 
+std::vector<OptionSpec> indexOptions() {
+    std::vector<OptionSpec> v = {logOption(), categoricalOption(), windowOption(), seOption(),
+                                 biasOption()};
+    for (OptionSpec& s : smoothingOptions<O>(
+             "Without smooth, window=k gives values that never revise."))
+        v.push_back(std::move(s));
+    OptionSpec minsales = minsalesOption();
+    minsales.description += " With smooth they get a value from the model instead.";
+    for (OptionSpec s : {minsales, spec::level<O>(), spec::dateorder(),
+                         spec::labels("text characteristics (categories)"), headerOption(), spec::titles(),
+                         smoothingNotesOption()})
+        v.push_back(std::move(s));
+    return v;
+}
+
 }  // namespace
 
 std::vector<FunctionSpec> hedonicFunctions() {
@@ -286,13 +303,12 @@ std::vector<FunctionSpec> hedonicFunctions() {
         "period of sale (OLS), the index is 100 exp(period effect - base effect). Adjusts for "
         "the mix of homes sold.",
         fitArgs,
-        {logOption(), categoricalOption(), windowOption(), seOption(), biasOption(),
-         minsalesOption(), spec::level<O>(), spec::dateorder(), spec::labels("text characteristics (categories)"), headerOption(),
-         spec::titles(), spec::notes()},
+        indexOptions(),
         spec::indexColumns(),
         spec::indexOutput() +
             " Bands: the confidence interval of the change from the base period (the base row "
-            "is 100 | 100).",
+            "is 100 | 100). With smooth: the smoothed index and its band (normal quantiles); "
+            "every period of the range has a value.",
         "=INDEXHEDONIC(A2:A5001;B2:B5001;C2:F5001;;\"Q\";;\"log=1; categorical=2\")",
         indexHedonic};
 

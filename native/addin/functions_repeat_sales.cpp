@@ -14,6 +14,7 @@
 #include "function_table.hpp"
 #include "inputs.hpp"
 #include "repeat_sales.hpp"
+#include "smoothing_options.hpp"
 
 namespace lintel::addin {
 
@@ -58,6 +59,7 @@ RepeatSalesInput readInput(const Call& call) {
 
 OutTable chainRs(const Call& call) {
     const RepeatSalesOptions o = call.options<RepeatSalesOptions>();
+    if (o.smoothed()) return smoothedIndexCells(smoothedRepeatSalesIndex(readInput(call), o), call, true);
     const RepeatSalesResult r = repeatSalesIndex(readInput(call), o);
     OutTable out = indexTableCells(r, call);
     if (call.layout().notes) labelTextRow(out, "pairs", r.pairCounts.summary(), call.spec().width());
@@ -169,6 +171,20 @@ OptionSpec baseOption() {
                   "2020-01-01); pairs not linked to its period are dropped. Use CHAINRS's base.");
 }
 
+std::vector<OptionSpec> indexOptions() {
+    std::vector<OptionSpec> v = {methodOption(), minholdOption(), maxrateOption(), chainOption(),
+                                 initOption()};
+    for (OptionSpec& s : smoothingOptions<O>(
+             "Without smooth, chain=1 gives values that never revise."))
+        v.push_back(std::move(s));
+    OptionSpec minsales = minsalesOption();
+    minsales.description += " With smooth they get a value from the model instead.";
+    for (OptionSpec s : {minsales, spec::level<O>(), spec::dateorder(), spec::labels("ids"), spec::header(),
+                         spec::titles(), smoothingNotesOption()})
+        v.push_back(std::move(s));
+    return v;
+}
+
 }  // namespace
 
 std::vector<FunctionSpec> repeatSalesFunctions() {
@@ -181,15 +197,14 @@ std::vector<FunctionSpec> repeatSalesFunctions() {
         "property id per sale, no characteristics.",
         {idsArg(), spec::dates(), spec::prices(), changedArg(), includeArg(), spec::freq<O>(),
          spec::base<O>(), spec::options()},
-        {methodOption(), minholdOption(), maxrateOption(), chainOption(), initOption(),
-         minsalesOption(), spec::level<O>(), spec::dateorder(), spec::labels("ids"), spec::header(),
-         spec::titles(), spec::notes()},
+        indexOptions(),
         spec::indexColumns("pairs"),
         spec::indexOutput() +
             " Count: pairs whose second sale falls in the period (the first period shows 0). "
             "Bands: the confidence interval of the change from the base period (the base row "
             "is 100 | 100). With notes=1 a last row \"pairs\" gives the pairs used and dropped "
-            "by reason.",
+            "by reason. With smooth: the smoothed index and its band (normal quantiles); every "
+            "period of the range has a value; the pairs row comes before the model's rows.",
         "=CHAINRS(C2:C12010;A2:A12010;B2:B12010;J2:J12010;;\"Q\";;\"method=cs; minhold=6\")",
         chainRs};
 

@@ -7,12 +7,14 @@
 #include <fmt/format.h>
 
 #include "hedonic_internal.hpp"
+#include "smoothed_index.hpp"
 
 namespace lintel {
 
 using namespace hedonic_detail;
 
 IndexResult hedonicIndex(const HedonicInput& input, const HedonicOptions& o) {
+    if (o.smoothed()) return smoothedHedonicIndex(input, o);
     Design D = buildDesign(input, o);
     IndexResult r;
     r.diag = std::move(D.diag);
@@ -48,6 +50,65 @@ IndexResult hedonicIndex(const HedonicInput& input, const HedonicOptions& o) {
         }
     }
     return r;
+}
+
+PeriodEffectSeries hedonicPeriodEffects(const HedonicInput& input, const HedonicOptions& o) {
+    if (o.window != 0)
+        throw InputError("period effects for smoothing come from the pooled fit (window=0)");
+    Design D = buildDesign(input, o);
+    PeriodEffectSeries out;
+    out.diag = std::move(D.diag);
+    warnPeriods(out.diag, D, o.minSales);
+    const int T = D.T;
+    const WindowFit F = fitWindow(D, 0, T - 1, o, false);
+    warnDropped(out.diag, allDropped(D, F), "");
+    if (!(F.df > 0))
+        throw InputError(fmt::format(
+            "the hedonic fit has no residual degrees of freedom ({} sales, {} periods with sales "
+            "and {} characteristic terms): its period effects have no standard errors to smooth "
+            "with", F.n, F.groups, static_cast<long>(F.kept)));
+    // The mean home: the characteristic terms averaged over every sale in the fit.
+    const Index K = D.K();
+    VectorXd zmean = VectorXd::Zero(K);
+    for (int t = 0; t < T; ++t)
+        if (F.cnt[t] > 0) zmean += static_cast<double>(F.cnt[t]) * F.zbar.row(t).transpose();
+    zmean /= static_cast<double>(F.n);
+    const double shift = zmean.dot(F.b);
+    out.axis = D.axis;
+    out.count.resize(T);
+    PeriodEffects& e = out.effects;
+    e.value.assign(T, kNoValue);
+    e.variance.assign(T, kNoValue);
+    if (!F.hc) {
+        e.loadings = MatrixXd::Zero(T, K);
+        e.sharedCov = F.s2 * F.Ainv;
+    }
+    const MatrixXd Vb = F.Vb();
+    int zeroHc = 0;
+    for (int t = 0; t < T; ++t) {
+        out.count[t] = D.count(t);
+        if (!F.has(t) || D.count(t) < o.minSales) continue;
+        e.value[t] = F.d(t) + shift;
+        if (!F.hc) {
+            // Independent part s^2 / n_t; shared part through the loadings Zbar_t - zbar.
+            e.variance[t] = F.s2 / static_cast<double>(F.cnt[t]);
+            e.loadings.row(t) = F.zbar.row(t) - zmean.transpose();
+        } else {
+            // HC1: the marginal variance of d_t + zbar'b.
+            const double v = F.covD(t, t) + 2 * zmean.dot(F.covDB(t)) + zmean.dot(Vb * zmean);
+            if (v > 0) {
+                e.variance[t] = v;
+            } else {  // a period fitted exactly (one sale): HC1 sees no noise in it
+                e.value[t] = kNoValue;
+                ++zeroHc;
+            }
+        }
+    }
+    if (zeroHc)
+        out.diag.warn(fmt::format("{} period(s) with an HC1 variance of 0 (fitted exactly, "
+                                  "e.g. a single sale) enter the smoother without a value",
+                                  zeroHc));
+    return out;
 }
 
 HedonicFit hedonicFit(const HedonicInput& input, const HedonicOptions& o) {

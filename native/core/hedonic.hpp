@@ -40,6 +40,7 @@
 #include <string>
 #include <vector>
 
+#include "index_smoothing.hpp"
 #include "index_table.hpp"
 #include "sales.hpp"
 
@@ -70,9 +71,11 @@ enum class HedonicBias { None, Kennedy };
 enum class HedonicStdErr { Classical, HC1 };
 enum class Retransform { Smearing, Lognormal };
 
-struct HedonicOptions : IndexOptions {
+struct HedonicOptions : IndexOptions, IndexSmoothing {
     // IndexOptions: freq ("M"), base (first period with a value), minsales (1): a period with
     // fewer sales shows no value but its sales stay in the fit, level (0.95).
+    // IndexSmoothing: smooth (none), seasonal, realtime, borrow (smoothed_index.hpp); smooth
+    // needs window 0 and bias none.
     int window = 0;                         // window: 0 (default) one pooled fit over all
                                             // periods; k >= 2 rolling windows of k periods
     HedonicBias bias = HedonicBias::None;   // bias: "none" (default) or "kennedy"
@@ -89,7 +92,7 @@ struct HedonicOptions : IndexOptions {
                                             // terms; default 1e-9, 0 < tolerance < 1
 
     // IndexOptions::validate, then window, log and categorical (columns >= 1, not both log
-    // and categorical) and the tolerance. Whether the columns exist is checked against the
+    // and categorical), the tolerance and the smoothing choices. Whether the columns exist is checked against the
     // input by the estimators. Throws InputError.
     void validate() const;
 };
@@ -159,8 +162,12 @@ struct RefHomeResult : IndexResult {
     const std::vector<double>& value() const { return table.index; }
 };
 
-// INDEXHEDONIC.
+// INDEXHEDONIC. With options.smoothed(): smoothedHedonicIndex (smoothed_index.hpp).
 IndexResult hedonicIndex(const HedonicInput& input, const HedonicOptions& options);
+// The period effects of the pooled fit (window must be 0) at the mean home with their
+// sampling covariance, for the smoother (smoothed_index.hpp says how).
+struct PeriodEffectSeries;
+PeriodEffectSeries hedonicPeriodEffects(const HedonicInput& input, const HedonicOptions& options);
 // HEDONICCOEFS.
 HedonicFit hedonicFit(const HedonicInput& input, const HedonicOptions& options);
 // REFHOMEVALUE.

@@ -70,6 +70,15 @@ void HedonicOptions::validate() const {
             throw InputError(fmt::format("column {} cannot be both log and categorical", c));
     if (!(collinearTolerance > 0 && collinearTolerance < 1))
         throw InputError("internal: collinearTolerance must lie in (0, 1)");
+    validateSmoothing(*this);
+    if (smoothed() && window != 0)
+        throw InputError(fmt::format(
+            "smooth works on the pooled fit, not on rolling windows: use window=0 with "
+            "smooth={} (for values that never revise add realtime=1)",
+            smooth == SmoothKind::Level ? "level" : "trend"));
+    if (smoothed() && bias == HedonicBias::Kennedy)
+        throw InputError("bias=kennedy corrects the free period effects of the plain index; it "
+                         "does not apply with smooth (use bias=none)");
 }
 
 namespace hedonic_detail {

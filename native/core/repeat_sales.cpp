@@ -5,11 +5,14 @@
 // docs/methods/repeat_sales.md.
 #include <algorithm>
 #include <cmath>
+#include <limits>
 #include <numeric>
+#include <stdexcept>
 
 #include <fmt/format.h>
 
 #include "repeat_sales_internal.hpp"
+#include "smoothed_index.hpp"
 #include "statistics.hpp"
 
 namespace lintel {
@@ -70,8 +73,8 @@ void Estimator::run() {
         obs_.push_back(ob);
     }
     weight_.assign(bp_.size(), 0.0);
-    Levels lv = o_.chain ? chained() : joint();
-    assemble(lv);
+    levels_ = o_.chain ? chained() : joint();
+    assemble(levels_);
 }
 
 std::string Estimator::pairSummaryNow() const {
@@ -139,6 +142,7 @@ JointFit Estimator::fitPart(std::vector<Obs>& obs, int basePos, Levels& lv, Vari
     for (int p = 0; p < T_; ++p)
         if (inPart[p] && p != ref) col[p] = k++;
     JointFit f = fitJoint(obs, col, k, o_.method, T_, acc, notes_, r_.diag);
+    lv.reference = ref;
     for (int p = 0; p < T_; ++p) {
         if (!inPart[p]) continue;
         if (touching[p] < o_.minSales) {
@@ -232,9 +236,11 @@ void Estimator::assemble(const Levels& lv) {
         if (bp_.status[ob.pair] == PairStatus::Used) bp_.weight[ob.pair] = weight_[ob.pair] * norm;
     r_.scale = lv.scale;
     r_.variance = lv.model;
-    // Warnings naming the periods without a value, one per cause.
+    // Warnings naming the periods without a value, one per cause (the smoother gives them
+    // a value).
     for (NoValue why : {NoValue::NoPair, NoValue::NotLinked, NoValue::NoPairEnds,
                         NoValue::Unreached, NoValue::Thin}) {
+        if (forSmoothing_) break;
         std::vector<int> pos;
         for (int t = 0; t < T_; ++t)
             if (!hasValue(lv.level[t]) && lv.why[t] == why) pos.push_back(t);
@@ -335,7 +341,76 @@ std::string RepeatSalesResult::summary() const {
 RepeatSalesResult repeatSalesIndex(const RepeatSalesInput& input,
                                    const RepeatSalesOptions& options, PairAudit* audit) {
     options.validate();
+    if (options.smoothed()) {
+        if (audit) throw std::logic_error("repeatSalesIndex: no pair audit for a smoothed index");
+        SmoothedIndexResult s = smoothedRepeatSalesIndex(input, options);
+        RepeatSalesResult r;
+        r.table = std::move(s.table);
+        r.diag = std::move(s.diag);
+        r.pairCounts = std::move(s.pairs);
+        r.logIndex = std::move(s.logIndex);
+        r.logSe = std::move(s.logSe);
+        r.df.assign(r.logIndex.size(), std::numeric_limits<double>::infinity());
+        return r;
+    }
     return runEstimate(rs_detail::buildPairsFromSales(input, options), options, false, audit);
+}
+
+PeriodEffectSeries repeatSalesPeriodEffects(const RepeatSalesInput& input,
+                                            const RepeatSalesOptions& options) {
+    if (options.chain)
+        throw InputError("period effects for smoothing come from the joint estimate (chain=0)");
+    RepeatSalesOptions o = options;
+    o.baseDate.reset();  // the reference is the first period with a value; the smoother rebases
+    static_cast<IndexSmoothing&>(o) = IndexSmoothing{};
+    o.validate();
+    BuiltPairs bp = rs_detail::buildPairsFromSales(input, o);
+    RepeatSalesResult r;
+    r.diag = bp.diag;
+    rs_detail::Estimator est(bp, o, r);
+    est.forSmoothing();
+    est.run();
+    finish(bp, r);
+    const rs_detail::Levels& lv = est.levels();
+    PeriodEffectSeries out;
+    out.axis = r.table.axis;
+    out.count = r.table.count;
+    out.diag = std::move(r.diag);
+    out.pairs = r.pairCounts;
+    const int T = out.axis.count;
+    const int ref = lv.reference;
+    std::vector<int> other;  // periods with a value besides the reference
+    for (int t = 0; t < T; ++t)
+        if (t != ref && hasValue(lv.level[t])) other.push_back(t);
+    if (other.empty())
+        throw InputError("the repeat-sales estimate has a value for one period only: nothing to "
+                         "smooth");
+    // v_ref: the mean covariance between two periods' effects (the part of their errors
+    // they share through the reference period).
+    double sum = 0, diag = 0;
+    std::size_t pairs = 0;
+    for (std::size_t i = 0; i < other.size(); ++i) {
+        diag += lv.cov(other[i], other[i]);
+        for (std::size_t j = i + 1; j < other.size(); ++j) {
+            sum += lv.cov(other[i], other[j]);
+            ++pairs;
+        }
+    }
+    double vref = pairs ? sum / static_cast<double>(pairs) : 0.0;
+    if (!(vref > 0)) vref = 0.5 * diag / static_cast<double>(other.size());
+    PeriodEffects& e = out.effects;
+    e.value.assign(T, kNoValue);
+    e.variance.assign(T, kNoValue);
+    if (ref >= 0 && hasValue(lv.level[ref])) {
+        e.value[ref] = 0.0;
+        e.variance[ref] = vref;
+    }
+    for (int t : other) {
+        const double v = lv.cov(t, t);
+        e.value[t] = lv.level[t];
+        e.variance[t] = std::max(v - vref, 0.05 * v);
+    }
+    return out;
 }
 
 PairAudit repeatSalesPairs(const RepeatSalesInput& input, const RepeatSalesOptions& options) {

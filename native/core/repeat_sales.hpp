@@ -31,6 +31,7 @@
 #include <utility>
 #include <vector>
 
+#include "index_smoothing.hpp"
 #include "index_table.hpp"
 #include "sales.hpp"
 
@@ -55,12 +56,14 @@ struct RepeatSalesInput {
                                  // dropped, the next pair starts from this sale
 };
 
-struct RepeatSalesOptions : IndexOptions {
+struct RepeatSalesOptions : IndexOptions, IndexSmoothing {
     // IndexOptions: freq (default "M"), base (default: first period with a value), level
     // (0.95), minsales (1): a period informed by fewer used pairs gets no value; the pairs
     // that inform a period are those with a sale in it for jointly estimated periods
     // (chain off, and the initial window of a chain) and those ending in it for chained
     // periods.
+    // IndexSmoothing: smooth (none), seasonal, realtime, borrow (smoothed_index.hpp); smooth
+    // needs chain off.
     RepeatSalesMethod method = RepeatSalesMethod::CaseShiller;  // method: "cs" (default),
                                                                 // "bmn", "cs2"
     double minHoldMonths = 6;  // minhold: pairs held fewer completed calendar months are
@@ -73,7 +76,8 @@ struct RepeatSalesOptions : IndexOptions {
                                    // chaining starts, counted from the first period of the
                                    // data, >= 1; default: two years (24 M, 8 Q, 2 Y)
 
-    // IndexOptions::validate, then minhold, maxrate and init. Throws InputError.
+    // IndexOptions::validate, then minhold, maxrate, init and the smoothing choices. Throws
+    // InputError.
     void validate() const;
     // The initial window used: chainInit, or two years of periods.
     int initialPeriods() const;
@@ -175,9 +179,18 @@ struct PairAudit {
 // CHAINRS: the index. Throws InputError when no index can be built (no usable pair, base
 // outside the data or without a value, invalid options). When `audit` is given it also
 // receives the pair audit of this very estimate (building it costs time: CHAINRS does not).
+// With options.smoothed(): the table of smoothedRepeatSalesIndex (smoothed_index.hpp), logSe
+// its band's standard deviation, df infinite (normal bands); audit must then be null.
 RepeatSalesResult repeatSalesIndex(const RepeatSalesInput& input,
                                    const RepeatSalesOptions& options,
                                    PairAudit* audit = nullptr);
+
+// The period effects of the joint estimate (chain must be off) with their sampling
+// variances read as independent errors around the reference period (smoothed_index.hpp),
+// for the smoother. The base option is not used.
+struct PeriodEffectSeries;
+PeriodEffectSeries repeatSalesPeriodEffects(const RepeatSalesInput& input,
+                                            const RepeatSalesOptions& options);
 
 // RSPAIRS: the audit table under the same filters and options. Does not throw when the index
 // itself cannot be built: the pairs that passed the filters are then marked NotEstimated, the

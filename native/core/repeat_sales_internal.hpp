@@ -167,6 +167,7 @@ struct Levels {
     std::vector<NoValue> why;
     double scale = kNoValue;
     RepeatSalesVarianceModel model;
+    int reference = -1;          // joint estimate: the period whose level is fixed at 0
 };
 
 // The estimate behind CHAINRS from the pairs that passed the filters: the joint fit (chain
@@ -178,6 +179,10 @@ public:
         : bp_(bp), o_(o), r_(r) {}
     // Throws InputError when no index can be built.
     void run();
+    // For the smoother: no warnings about periods without a value (the model gives them one).
+    void forSmoothing() { forSmoothing_ = true; }
+    // The levels and their covariance behind the table (after run()).
+    const Levels& levels() const { return levels_; }
 
 private:
     // The running sums of the chain (repeat_sales_chain.cpp).
@@ -198,6 +203,8 @@ private:
     std::vector<Obs> obs_;
     std::vector<double> weight_;  // raw final-stage weight per pair (0 = not used)
     StageTwoNotes notes_;
+    Levels levels_;
+    bool forSmoothing_ = false;
 
     std::string pairSummaryNow() const;
     int explicitBase() const;

@@ -181,6 +181,11 @@ void RepeatSalesOptions::validate() const {
         throw InputError(fmt::format("maxrate must be 0 (off) or positive, got {}", maxRate));
     if (chainInit && *chainInit < 1)
         throw InputError(fmt::format("init must be 1 or more periods, got {}", *chainInit));
+    validateSmoothing(*this);
+    if (smoothed() && chain)
+        throw InputError("smooth needs chain=0: the smoother takes the period effects estimated "
+                         "jointly (for values that never revise use realtime=1 instead of "
+                         "chain=1)");
 }
 
 int RepeatSalesOptions::initialPeriods() const {

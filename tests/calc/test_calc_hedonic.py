@@ -379,7 +379,7 @@ class HedonicBadInputTest(SheetCalls, unittest.TestCase):
             f"=INDEXHEDONIC(A1:A{n};B1:B{n};C1:F{n - 1})": f"Lintel: dates has {n} rows, characteristics has {n - 1}",
             f'=INDEXHEDONIC({r};;;;"log=1; colour=red")':
                 'Lintel: unknown option "colour" for INDEXHEDONIC (known: log, categorical, window, se, bias, '
-                "minsales, level, dateorder, labels, header, titles, notes)",
+                "smooth, seasonal, realtime, borrow, minsales, level, dateorder, labels, header, titles, notes)",
             f'=HEDONICCOEFS({r};;;;"bias=kennedy")': 'Lintel: unknown option "bias" for HEDONICCOEFS',
             f'=INDEXHEDONIC({r};;;;"log=3")': "Lintel: log: column 3 (x3) holds text, not numbers",
             f'=INDEXHEDONIC({r};;;;"window=1")': "Lintel: window must be 0 (pooled) or at least 2 periods, got 1",

@@ -75,7 +75,7 @@ BOOST_AUTO_TEST_CASE(method_rows_take_the_functions_own_options) {
 BOOST_AUTO_TEST_CASE(bad_rows_are_named) {
     BOOST_TEST(rowError({"median", "hedonic lgo=1"}) ==
                "methods row 2 (\"hedonic lgo=1\"): unknown option \"lgo\" for hedonic (known: "
-               "log, categorical, window, se, bias, minsales, level)");  // INDEXHEDONIC's keys
+               "log, categorical, window, se, bias, smooth, seasonal, realtime, borrow, minsales, level)");  // INDEXHEDONIC's keys
     BOOST_TEST(has(rowError({"medain"}), "methods row 1 (\"medain\"): unknown method \"medain\" "
                                           "(known: median, mean, mix, hedonic, repeat;"));
     BOOST_TEST(rowError({"median", "repeat freq=Q"}) ==

@@ -369,7 +369,7 @@ BOOST_AUTO_TEST_CASE(option_and_argument_errors) {
         {"log=1; bias=kennedy", ""},  // accepted by INDEXHEDONIC
         {"log=1; colour=red",
          "Lintel: unknown option \"colour\" for INDEXHEDONIC (known: log, categorical, window, "
-         "se, bias, minsales, level, dateorder, labels, header, titles, notes)"},
+         "se, bias, smooth, seasonal, realtime, borrow, minsales, level, dateorder, labels, header, titles, notes)"},
         {"window=1", "Lintel: window must be 0 (pooled) or at least 2 periods, got 1"},
         {"window=-2", "Lintel: option window must be a whole number of at least 0, got -2"},
         {"window=1e9", "Lintel: option window must be a whole number from 0 to 1000000, got 1000000000"},

@@ -127,8 +127,9 @@ BOOST_AUTO_TEST_CASE(table_entries_have_the_fixed_names_and_argument_orders) {
     BOOST_TEST(argNames("RSPAIRS") ==
                (std::vector<std::string>{"ids", "dates", "prices", "changed", "include", "options"}));
     BOOST_TEST(optionKeys("CHAINRS") ==
-               (std::vector<std::string>{"method", "minhold", "maxrate", "chain", "init", "minsales",
-                                         "level", "dateorder", "labels", "header", "titles", "notes"}));
+               (std::vector<std::string>{"method", "minhold", "maxrate", "chain", "init", "smooth",
+                                         "seasonal", "realtime", "borrow", "minsales", "level", "dateorder",
+                                         "labels", "header", "titles", "notes"}));
     BOOST_TEST(optionKeys("RSPAIRS") ==
                (std::vector<std::string>{"method", "minhold", "maxrate", "chain", "init", "minsales",
                                          "level", "freq", "base", "dateorder", "labels", "header", "titles",
@@ -431,7 +432,8 @@ BOOST_AUTO_TEST_CASE(bad_input_messages) {
 
     BOOST_TEST(messageOf(call("CHAINRS", chainArgs(s, "colour=red"))) ==
                "Lintel: unknown option \"colour\" for CHAINRS (known: method, minhold, maxrate, "
-               "chain, init, minsales, level, dateorder, labels, header, titles, notes)");
+               "chain, init, smooth, seasonal, realtime, borrow, minsales, level, dateorder, labels, header, "
+               "titles, notes)");
     BOOST_TEST(messageOf(call("RSPAIRS", pairArgs(s, "method=ols"))) ==
                "Lintel: option method must be \"cs\", \"bmn\" or \"cs2\", got \"ols\"");
     BOOST_TEST(messageOf(call("CHAINRS", chainArgs(s, "chain=2"))) == "Lintel: option chain must be 1 or 0 (TRUE or FALSE), got \"2\"");

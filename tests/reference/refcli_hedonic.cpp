@@ -12,7 +12,10 @@
 // CSV: columns date, price, optional include (0/1); every other column is a characteristic,
 // in file order, classified by lintel::classifyColumn (numbers vs text) as the add-in does.
 // Options: freq=M base=<serial> minsales=1 level=0.95 window=0 bias=none|kennedy
-// se=classical|hc1 log=1,3 categorical=2 retransform=smearing|lognormal
+// se=classical|hc1 log=1,3 categorical=2 retransform=smearing|lognormal, and the smoothing
+// options of refcli_smoothed.hpp; with them hedonic_index gives the smoothed table.
+//   hedonic_smooth <csv> [options]    -> the smoothed index with the model (refcli_smoothed.hpp)
+//   hedonic_effects <csv> [options]   -> the period effects for the smoother
 #include <cmath>
 #include <cstdio>
 #include <fstream>
@@ -20,6 +23,7 @@
 
 #include "hedonic.hpp"
 #include "refcli.hpp"
+#include "refcli_smoothed.hpp"
 
 namespace {
 
@@ -69,6 +73,18 @@ const refcli::Register regIndex("hedonic_index", [](const refcli::Table& t,
     const lintel::IndexResult r = lintel::hedonicIndex(readInput(t), readOptions(a, "INDEXHEDONIC"));
     printDiag(r.diag);
     return refcli::printIndexTable(r.table);
+});
+
+const refcli::Register regSmooth("hedonic_smooth", [](const refcli::Table& t,
+                                                      const refcli::Args& a) {
+    return refcli::printSmoothed(
+        lintel::smoothedHedonicIndex(readInput(t), readOptions(a, "INDEXHEDONIC")));
+});
+
+const refcli::Register regEffects("hedonic_effects", [](const refcli::Table& t,
+                                                        const refcli::Args& a) {
+    return refcli::printEffects(
+        lintel::hedonicPeriodEffects(readInput(t), readOptions(a, "INDEXHEDONIC")));
 });
 
 const refcli::Register regCoefs("hedonic_coefs", [](const refcli::Table& t,

@@ -12,7 +12,10 @@
 //       -> as repeat_sales_index
 // Options: freq=M base=<serial> method=cs|bmn|cs2 minhold=6 maxrate=1 chain=0 init=0
 //          minsales=1 level=0.95 numericid=0 (1: read ids as numbers and convert them with
-//          keyText, as the add-in does for numeric cells)
+//          keyText, as the add-in does for numeric cells), and the smoothing options of
+//          refcli_smoothed.hpp (repeat_sales_index then gives the smoothed table)
+//   repeat_sales_smooth <same csv> [options]   -> the smoothed index with the model
+//   repeat_sales_effects <same csv> [options]  -> the period effects for the smoother
 #include <cmath>
 #include <cstdio>
 #include <stdexcept>
@@ -21,6 +24,7 @@
 #include "repeat_sales.hpp"
 #include "text_keys.hpp"
 #include "refcli.hpp"
+#include "refcli_smoothed.hpp"
 
 namespace {
 
@@ -71,6 +75,14 @@ int printIndex(const lintel::RepeatSalesResult& r) {
 
 const refcli::Register regIndex("repeat_sales_index", [](const auto& t, const auto& a) {
     return printIndex(lintel::repeatSalesIndex(input(t, a), options(a)));
+});
+
+const refcli::Register regSmooth("repeat_sales_smooth", [](const auto& t, const auto& a) {
+    return refcli::printSmoothed(lintel::smoothedRepeatSalesIndex(input(t, a), options(a)));
+});
+
+const refcli::Register regEffects("repeat_sales_effects", [](const auto& t, const auto& a) {
+    return refcli::printEffects(lintel::repeatSalesPeriodEffects(input(t, a), options(a)));
 });
 
 const refcli::Register regFromPairs("repeat_sales_from_pairs", [](const auto& t, const auto& a) {

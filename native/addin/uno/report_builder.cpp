@@ -174,6 +174,7 @@ public:
         if (w.bold) props->setPropertyValue("CharWeight", Any(css::awt::FontWeight::BOLD));
         if (w.wrap) props->setPropertyValue("IsTextWrapped", Any(true));
         if (w.center) props->setPropertyValue("HoriJustify", Any(css::table::CellHoriJustify_CENTER));
+        if (w.shrink) props->setPropertyValue("ShrinkToFit", Any(true));
         if (w.rule) {
             css::table::BorderLine2 line;
             line.Color = 0x808080;
