@@ -102,9 +102,22 @@ class ReportTest(unittest.TestCase):
         # The printed pages (rows 1-80) show no formula text of the worksheet (issue 15).
         printed = rep.getCellRangeByName("A1:L80").getDataArray()
         self.assertFalse([v for r in printed for v in r if isinstance(v, str) and "$Sales" in v])
-        # The market summary: the one segment quotes its first suitable measure (the median).
+        # The market summary: the one segment quotes the measure INDEXBACKTEST recommends on
+        # its sales (called directly here on the same include).
         summary = self.named("Lintel_r1_summary").getDataArray()
-        self.assertEqual(summary[1][:2], ("District = East", "Median"))
+        self.assertEqual(summary[1][0], "District = East")
+        bt = self.doc.Sheets
+        bt.insertNewByName("Backtest", bt.Count)
+        b = bt.getByName("Backtest")
+        b.getCellRangeByName("A1:A2").setDataArray((("median",), ("mean",)))
+        b.getCellRangeByName("B1:L2").setArrayFormula(
+            f'=INDEXBACKTEST($Sales.C2:C901;$Sales.A2:A901;$Sales.B2:B901;;;;{include(901)};"Q";A1:A2)')
+        self.doc.calculateAll()
+        rows = sheet_values(b, "B1:L2")
+        recommended = [r[0] for r in rows if r[9] == 1]
+        self.assertEqual(len(recommended), 1, rows)
+        self.assertEqual(summary[1][1], {"median": "Median", "mean": "Mean"}[recommended[0]])
+        self.assertEqual(summary[1][10], [r[10] for r in rows if r[9] == 1][0])
         # Index tables: one array formula per method, sized to the 12 periods, each a named range.
         table = self.named("Lintel_r1_all_median")
         self.assertEqual(table.Rows.Count, 12)
@@ -446,7 +459,7 @@ class ReportTest(unittest.TestCase):
         sales.getCellRangeByName(f"A{last + 1}:E{last + 3}").setDataArray(
             [(float((pd.Timestamp("2024-01-14") - EPOCH).days), 250000.0 + i, f"H97{i}", "East", 100.0)
              for i in range(3)])
-        settings = SETTINGS.format(last=last + 3).replace("freq=Q", "freq=M")
+        settings = SETTINGS.format(last=last + 3).replace("freq=Q", "freq=M") + "quote=median\n"
         got = self.build(settings)
         self.assertIn("sales up to 2024-01-14", got)
         rep = self.doc.Sheets.getByName("Report East")

@@ -63,6 +63,8 @@ class SidebarTest(unittest.TestCase):
         win = panel.Window
         self.assertIn("Use selection", win.getControl("btnSelection").Model.Label)
         self.assertIn("not one home", win.getControl("txtCaution").Text)
+        self.assertEqual(win.getControl("btnPdf").Model.Label, "Export PDF")
+        self.assertEqual(win.getControl("btnValues").Model.Label, "Copy as values")
         # Pick one cell of the table: the panel takes the region around it.
         self.doc.CurrentController.select(self.sales.getCellRangeByName("C7"))
         press(win, "btnSelection")
@@ -84,7 +86,7 @@ class SidebarTest(unittest.TestCase):
         press(win, "btnBuild")
         status = win.getControl("txtStatus").Text
         # All 455 West sales, the three typed otherwise included.
-        self.assertTrue(status.startswith("Report West: 455 sales, 12 periods"), status)
+        self.assertTrue(status.startswith("Report West: 455 sales, 1 segment, 12 periods"), status)
         self.assertIn("12 periods (2021-Q1 .. 2023-Q4)", status)
         rep = self.doc.Sheets.getByName("Report West")
         self.assertEqual(rep.getCellRangeByName("B88").getValue(), 44562.0)  # 2022-01-01
