@@ -155,6 +155,7 @@ private:
     void summary();
     void charts();
     int comparablesBlock(int row, int col);
+    void dataCheckBlock(int row, int col);
     std::string methodSentence() const;
 
     // ---- writing --------------------------------------------------------------------------
@@ -751,9 +752,13 @@ void Planner::segmentSection(std::size_t si, int row) {
                 format(first, btc + 1 + h, K, 1, bt.columns[static_cast<std::size_t>(h)].format);
         nameCells(first, btc + 1, K, width);
         const std::string rec = localRange(first, btc + 10, first + K - 1, btc + 10);
-        const std::string reason = localRange(first, btc + 11, first + K - 1, btc + 11);
+        const std::string err = localRange(first, btc + 3, first + K - 1, btc + 3);
         quotedFormula = fmt::format("=IFERROR(MATCH(1;{};0);{})", rec, quoted);
-        whyFormula = fmt::format("=IFERROR(INDEX({};MATCH(1;{};0));{})", reason, rec, formulaText(why));
+        // In a few words for the summary (the full reason is in the table's last column).
+        whyFormula = fmt::format(
+            "=IFERROR(IF(INDEX({1};MATCH(1;{0};0))=MIN({1});\"most accurate on unseen resales\";"
+            "\"as accurate within noise, steadier\")&\" (error \"&ROUND(INDEX({1};MATCH(1;{0};0));1)&\" %)\";{2})",
+            rec, err, formulaText(why));
         helperCol_ = std::max(helperCol_, btc + width + 3);
         block(seg.key + "_title", "");
     }
@@ -898,6 +903,27 @@ std::string Planner::methodSentence() const {
     return fmt::format("Method: each segment quotes, of the measures computed, the first that suits the data in this "
                        "order: hedonic time dummy, mix-adjusted median, repeat sales, median; changes are of that "
                        "index between periods; {}.", band);
+}
+
+// The data check: SALESCHECK's counts over the whole sales table (unreadable dates and prices,
+// duplicates, conflicting prices, extreme prices), and the formula that lists the rows.
+void Planner::dataCheckBlock(int row, int col) {
+    block("datacheck", "data check");
+    text(row, col, "Data check (every row of the sales data)", true, 12);
+    const addin::FunctionSpec& check = addin::functionSpec("SALESCHECK");
+    std::vector<std::pair<std::string, std::string>> named = {{"dates", dates_}, {"prices", prices_}, {"freq", freqRef_}};
+    if (!idRange_.empty()) named.emplace_back("ids", idRange_);
+    auto counts = named;
+    counts.emplace_back("options", formulaText("output=counts; labels=clean; titles=1"));
+    constexpr int kRows = 14;
+    array(row + 1, col, kRows, 2, "=IFERROR(" + addin::formulaCall(check, counts) + ";\"\")");
+    nameCells(row + 1, col, kRows, 2);
+    auto list = named;
+    list.emplace_back("options", formulaText("labels=clean; titles=1"));
+    CellWrite& how = text(row + kRows + 1, col,
+                          "The rows themselves (row, column, problem, value): type on a sheet of your own " +
+                              std::string("=") + addin::formulaCall(check, list));
+    how.charHeight = 8;
 }
 
 // Time-adjusted comparables: rows the analyst fills in (address, segment, sale date, price),
@@ -1104,6 +1130,7 @@ ReportPlan Planner::run() {
         }
     }
     comparablesBlock(Layout::kWorkRow, 4);
+    if (haveFunction("SALESCHECK")) dataCheckBlock(Layout::kWorkRow, 11);
     summary();
 
     // Page 1 foot: the method in one sentence and the data line.
