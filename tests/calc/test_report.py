@@ -118,6 +118,14 @@ class ReportTest(unittest.TestCase):
         self.assertEqual(len(recommended), 1, rows)
         self.assertEqual(summary[1][1], {"median": "Median", "mean": "Mean"}[recommended[0]])
         best = [r for r in rows if r[9] == 1][0]
+        # The data check block: SALESCHECK's counts over every row, as called directly.
+        b.getCellRangeByName("A10:B23").setArrayFormula(
+            '=IFERROR(SALESCHECK($Sales.A2:A901;$Sales.B2:B901;$Sales.C2:C901;;;$B$87;'
+            '"output=counts; labels=clean; titles=1");"")'.replace("$B$87", '"Q"'))
+        self.doc.calculateAll()
+        check = self.named("Lintel_r1_datacheck").getDataArray()
+        self.assertEqual([list(r) for r in check], sheet_values(b, "A10:B23"))
+        self.assertTrue(any(isinstance(r[1], float) and r[1] > 0 for r in check[1:]), check)
         lowest = min(r[2] for r in rows if isinstance(r[2], float))
         self.assertEqual(summary[1][10], ("most accurate on unseen resales" if best[2] == lowest else
                                           "as accurate within noise, steadier") + f" (error {round(best[2], 1):g} %)")
