@@ -997,12 +997,12 @@ void Planner::charts() {
     const int chartRow = summaryEnd + 1;
     // Page 1 is 170 mm high (A4 and Letter landscape, within the margins and the footer):
     // fixed rows above and below, the summary's rows, and the rest for the charts.
-    const double fixedTop = 9 + 5 + 9 + 2 + 7 + 9, summaryRow = 4.3, foot = 8 + 4.5 + 1;
+    const double top[] = {8.5, 5, 9, 1, 7, 10.5};  // title, subtitle, caution, gap, heading, column heads
+    const double fixedTop = top[0] + top[1] + top[2] + top[3] + top[4] + top[5], summaryRow = 4.3, foot = 8 + 4.5 + 1;
     const int fillRows = Layout::kPageRows - 3 - summaryEnd;
     const double fill = 170.0 - fixedTop - summaryRow * S - foot;
     const double fillRow = fill / std::max(fillRows, 1);
     const int chartH = static_cast<int>(std::min(85.0, fill - fillRow - 2));
-    const double top[] = {9, 5, 9, 2, 7, 9};
     for (int r = 0; r < 6; ++r) plan_.rowHeightsMm.push_back({r, top[r]});
     for (int r = Layout::kSummaryFirstRow; r < summaryEnd; ++r) plan_.rowHeightsMm.push_back({r, summaryRow});
     for (int r = summaryEnd; r < Layout::kPageRows - 3; ++r) plan_.rowHeightsMm.push_back({r, fillRow});
