@@ -107,7 +107,9 @@ class SegmentReportTest(unittest.TestCase):
         d.getCellRangeByName(f"ZZ1:ZZ{n - 1}").setArrayFormula("=" + check)
         self.doc.calculateAll()
         use = np.array([r[0] for r in sheet_values(d, f"ZZ1:ZZ{n - 1}")]) == 1
+        # The candidates: a thin segment's hedonic index borrows strength from the market.
         d.getCellRangeByName("ZY1:ZY3").setDataArray((("median",), ("mix",), ("hedonic log=3",)))
+        d.getCellRangeByName("ZY5:ZY7").setDataArray((("median",), ("mix",), ("hedonic log=3 smooth=trend borrow=1",)))
         date = pd.to_numeric(self.sales["date"], errors="coerce")
         month = (pd.Timestamp("1899-12-30") + pd.to_timedelta(date.fillna(0), unit="D")).dt.strftime("%Y-%m")
         dec = (month == "2025-12").to_numpy() & self.usable()
@@ -116,21 +118,26 @@ class SegmentReportTest(unittest.TestCase):
             label = row[0]
             if label == "All sales":
                 include, mask = check, np.ones(len(self.sales), bool)
+                candidates = "$ZY$1:$ZY$3"
             else:
                 dist, typ = label.split(", ")
                 include = f'ISSEGMENT($Sales.D2:D{n};"{dist}")*ISSEGMENT($Sales.E2:E{n};"{typ}")*{check}'
                 mask = ((self.sales["district"] == dist) & (self.sales["type"] == typ)).to_numpy()
+                # Every one of these segments is thin (under 20 sales a month on average).
+                self.assertLess(int((mask & self.usable()).sum()), 20 * 132, label)
+                candidates = "$ZY$5:$ZY$7"
             c = 12 * i
             ref = lambda k, r0, r1: f"{col(c + k)}{r0}:{col(c + k)}{r1}"  # noqa: E731
             # The measure quoted is the one INDEXBACKTEST recommends on the segment's sales.
             d.getCellRangeByName(f"{col(c)}140:{col(c + 10)}142").setArrayFormula(
                 f'=INDEXBACKTEST($Sales.C2:C{n};$Sales.A2:A{n};$Sales.B2:B{n};$Sales.D2:I{n};$Sales.D2:E{n};'
-                f'$Sales.J2:J{n};{include};"M";$ZY$1:$ZY$3)')
+                f'$Sales.J2:J{n};{include};"M";{candidates})')
             self.doc.calculateAll()
             bt = sheet_values(d, f"{col(c)}140:{col(c + 10)}142")
             best = [r for r in bt if r[9] == 1]
             self.assertEqual(len(best), 1, (label, bt))
-            measure = {"median": "Median", "mix": "Mix-adjusted median", "hedonic log=3": "Hedonic time dummy"}
+            measure = {"median": "Median", "mix": "Mix-adjusted median", "hedonic log=3": "Hedonic time dummy",
+                       "hedonic log=3 smooth=trend borrow=1": "Hedonic, borrowing"}
             self.assertEqual(row[1], measure[best[0][0]], label)
             lowest = min(r[2] for r in bt if isinstance(r[2], float))
             self.assertEqual(row[10], ("most accurate on unseen resales" if best[0][2] == lowest else
@@ -140,7 +147,10 @@ class SegmentReportTest(unittest.TestCase):
                     "Mix-adjusted median": f'=INDEXMIX($Sales.A2:A{n};$Sales.B2:B{n};$Sales.D2:E{n};{include};"M";'
                                            '{base};"level=0.95; labels=clean")',
                     "Hedonic time dummy": f'=INDEXHEDONIC($Sales.A2:A{n};$Sales.B2:B{n};$Sales.D2:I{n};{include};"M";'
-                                          '{base};"level=0.95; labels=clean; log=3")'}[row[1]]
+                                          '{base};"level=0.95; labels=clean; log=3")',
+                    "Hedonic, borrowing":
+                        f'=INDEXHEDONIC($Sales.A2:A{n};$Sales.B2:B{n};$Sales.D2:I{n};{include};"M";'
+                        '{base};"level=0.95; labels=clean; log=3; smooth=trend; borrow=1")'}[row[1]]
             d.getCellRangeByName(f"{col(c)}1:{col(c + 4)}132").setArrayFormula(call.format(base="DATE(2015;1;1)"))
             d.getCellRangeByName(ref(5, 1, 132)).setArrayFormula(f"=INDEXCHANGE({ref(1, 1, 132)};1)")
             d.getCellRangeByName(ref(6, 1, 132)).setArrayFormula(f"=INDEXCHANGE({ref(1, 1, 132)};12)")
@@ -159,7 +169,8 @@ class SegmentReportTest(unittest.TestCase):
             prices = price[mask & dec & use]
             self.assertEqual(got["sales"], len(prices), label)
             self.assertEqual(got["median"], float(np.median(prices)), label)
-            self.assertEqual(got["flags"], "thin" if len(prices) < 20 else "", label)
+            flags = ("thin" if len(prices) < 20 else "") + (" borrowed" if row[1].endswith("borrowing") else "")
+            self.assertEqual(got["flags"], flags.strip(), label)
 
     def test_charts_small_multiples_share_one_scale(self):
         rep = self.doc.Sheets.getByName("Report All sales")

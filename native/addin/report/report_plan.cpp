@@ -128,6 +128,7 @@ struct MethodCells {
     int col = 0, width = 0;
     int rows = 0;         // the table's rows (the segment's periods)
     int bandCol = -1;     // the year-band table (index methods)
+    bool borrows = false; // hedonic of a thin segment: smoothed, borrowing from the whole range
 };
 
 class Planner {
@@ -224,7 +225,8 @@ private:
     std::vector<int> chars_, strata_;
     std::string homeCaption_;
     int statusRow_ = 0;
-    bool backtestUsed_ = false;  // a segment's quoted measure comes from INDEXBACKTEST  // first method status row of the settings block  // formula describing the reference home (whole scope), or empty
+    bool backtestUsed_ = false;
+    bool borrowUsed_ = false;  // a thin segment's hedonic index borrows strength  // a segment's quoted measure comes from INDEXBACKTEST  // first method status row of the settings block  // formula describing the reference home (whole scope), or empty
     std::vector<Method> methods_, indexMethods_;
     std::vector<Segment> segments_;
     std::vector<std::size_t> scopeRows_;  // usable rows of the scope (data rows, 1-based)
@@ -241,6 +243,7 @@ private:
         int quotedCell[2] = {0, 0};  // row, col of the quoted method's number (1..K)
         int reasonCell[2] = {0, 0};
         int quotedIndex = 1;          // the quoted method's number as planned (1..K)
+        int borrowPosition = 0;       // 1..K: the hedonic index borrows strength (thin segment)
         std::vector<MethodCells> tables;
     };
     std::vector<SegmentCells> cells_;
@@ -563,6 +566,17 @@ void Planner::segmentSection(std::size_t si, int row) {
     const int Ts = static_cast<int>(seg.lastKey - seg.firstKey + 1);
     const int K = static_cast<int>(indexMethods_.size());
 
+    // A thin segment (fewer sales a period on average than "thin below") borrows strength from
+    // the whole range in its hedonic index: the market's period effects plus the segment's
+    // own smoothed deviation (INDEXHEDONIC smooth=trend; borrow=1; docs/methods/smoothing.md).
+    const auto hedonicAdv = s_.advanced.find(methodKey(Method::Hedonic));
+    const std::string hedonicOptions = hedonicAdv == s_.advanced.end() ? std::string() : hedonicAdv->second;
+    const bool borrow = !seg.whole && !include.empty() && haveOption("INDEXHEDONIC", "borrow") &&
+                        hedonicOptions.find("window") == std::string::npos &&
+                        hedonicOptions.find("bias") == std::string::npos &&
+                        hedonicOptions.find("smooth") == std::string::npos &&
+                        static_cast<double>(seg.sales) < static_cast<double>(s_.thin) * Ts;
+
     block(seg.key + "_title", "section title: " + seg.label);
     text(row, 0, fmt::format("{}: {} sales", seg.label, seg.sales), true, 12);
     text(row + 1, 0, "Include expression");
@@ -591,6 +605,11 @@ void Planner::segmentSection(std::size_t si, int row) {
             {"options", opts}};
         if (m == Method::Mix) named.emplace_back("strata", strataBlock_);
         if (m == Method::Hedonic || m == Method::ReferenceHome) named.emplace_back("characteristics", charsBlock_);
+        if (m == Method::Hedonic && borrow) {
+            mc.borrows = true;
+            for (auto& [k, v] : named)
+                if (k == "options") v += "&" + formulaText("; smooth=trend; borrow=1");
+        }
         if (m == Method::RepeatSales) {
             named.emplace_back("ids", idRange_);
             named.emplace_back("changed", changedRange_);
@@ -659,7 +678,7 @@ void Planner::segmentSection(std::size_t si, int row) {
         const std::string periods = localRange(first, mc.col, first + mc.rows - 1, mc.col);
         for (int part = 0; part < 3; ++part) {
             const int c = bc + 1 + part * K + k;
-            text(head, c, std::string(methodLabel(mc.method)) + parts[part], true);
+            text(head, c, std::string(mc.borrows ? "Hedonic, borrowing" : methodLabel(mc.method)) + parts[part], true);
             const int src = mc.col + (part == 0 ? 1 : part + 2);  // index, lower, upper
             array(first, c, T_, 1,
                   fmt::format("=IFERROR(INDEX({};MATCH({};{};0));\"\")",
@@ -670,7 +689,7 @@ void Planner::segmentSection(std::size_t si, int row) {
         const addin::FunctionSpec& changeFn = addin::functionSpec("INDEXCHANGE");
         for (int part = 3; part < 5; ++part) {
             const int c = bc + 1 + part * K + k;
-            text(head, c, std::string(methodLabel(mc.method)) + parts[part], true);
+            text(head, c, std::string(mc.borrows ? "Hedonic, borrowing" : methodLabel(mc.method)) + parts[part], true);
             array(first, c, T_, 1,
                   "=" + addin::formulaCall(changeFn, {{"index", levels},
                                                       {"lag", part == 3 ? std::to_string(periodsPerYear(freq_)) : "1"}}));
@@ -736,6 +755,7 @@ void Planner::segmentSection(std::size_t si, int row) {
             std::string candidate = methodKey(m);
             auto adv = s_.advanced.find(methodKey(m));
             if (adv != s_.advanced.end() && !adv->second.empty()) candidate += " " + adv->second;
+            if (m == Method::Hedonic && borrow) candidate += " smooth=trend borrow=1";
             text(first + i, btc, candidate);
         }
         for (int h = 0; h < width; ++h)
@@ -761,6 +781,17 @@ void Planner::segmentSection(std::size_t si, int row) {
             rec, err, formulaText(why));
         helperCol_ = std::max(helperCol_, btc + width + 3);
         block(seg.key + "_title", "");
+    }
+    if (borrow) {
+        for (int i = 0; i < K; ++i)
+            if (indexMethods_[static_cast<std::size_t>(i)] == Method::Hedonic) sc.borrowPosition = i + 1;
+        if (sc.borrowPosition) {
+            borrowUsed_ = true;
+            text(row + 2, 4, fmt::format("Thin: {:.1f} sales a period on average, below the {} the report asks; its "
+                                         "hedonic index borrows strength from the whole range (the market's period "
+                                         "effects plus this segment's smoothed deviation).",
+                                         static_cast<double>(seg.sales) / Ts, s_.thin));
+        }
     }
     sc.quotedIndex = quoted;
     sc.quotedCell[0] = row + 2;
@@ -848,7 +879,7 @@ void Planner::summary() {
                                localRange(first, sc.chartCol + 1 + part * K, last, sc.chartCol + K + part * K), q);
         };
         text(r, 0, seg.label, seg.whole).charHeight = 9;
-        formula(r, 1, fmt::format("={}", cellRef(sc.quotedCell[0], 1)));
+        formula(r, 1, fmt::format("={}", cellRef(sc.quotedCell[0], 1))).shrink = true;
         // Median price of the headline period in money (the sales of the segment).
         array(r, 2, 1, 1,
               fmt::format("=IFERROR(MEDIAN(IF(({}={})*({});{};\"\"));\"\")",
@@ -877,9 +908,12 @@ void Planner::summary() {
         const std::string sales = localRange(first, sc.chartCol + 1 + 5 * K, last, sc.chartCol + 1 + 5 * K);
         formula(r, 8, fmt::format("=IFERROR(INDEX({};{});0)", sales, at), "#,##0");
         // Flags: thin (fewer sales than the threshold), partial (the latest period left out).
-        formula(r, 9, fmt::format("=TRIM(IF(IFERROR(INDEX({0};{1});0)<{2};\"thin \";\"\")&\"{3}\")", sales, at,
-                                  thinRef_, headlineOffset_ ? "partial" : ""))
-            .center = true;
+        CellWrite& flags = formula(r, 9, fmt::format("=TRIM(IF(IFERROR(INDEX({0};{1});0)<{2};\"thin \";\"\")&\"{3}\"{4})", sales, at,
+                                  thinRef_, headlineOffset_ ? "partial" : "",
+                                  sc.borrowPosition ? fmt::format("&IF({}={};\" borrowed\";\"\")", q, sc.borrowPosition)
+                                                    : std::string()));
+        flags.center = true;
+        flags.shrink = true;
         formula(r, 10, fmt::format("={}", cellRef(sc.reasonCell[0], sc.reasonCell[1]))).shrink = true;
     }
     CellWrite f;
@@ -892,7 +926,9 @@ void Planner::summary() {
 }
 
 std::string Planner::methodSentence() const {
-    const std::string band = fmt::format("the band is the {:.0f} % confidence interval of the year's change", 100 * s_.level);
+    std::string band = fmt::format("the band is the {:.0f} % confidence interval of the year's change", 100 * s_.level);
+    if (borrowUsed_)
+        band += "; a segment flagged \"borrowed\" is thin: its hedonic index borrows strength from the market";
     if (backtestUsed_)
         return fmt::format("Method: each segment quotes the measure that best predicted resales of its own sales "
                            "that it had not seen (Lintel's INDEXBACKTEST: accuracy first, then revision, then "
@@ -998,7 +1034,7 @@ void Planner::charts() {
     // Page 1 is 170 mm high (A4 and Letter landscape, within the margins and the footer):
     // fixed rows above and below, the summary's rows, and the rest for the charts.
     const double top[] = {8.5, 5, 9, 1, 7, 10.5};  // title, subtitle, caution, gap, heading, column heads
-    const double fixedTop = top[0] + top[1] + top[2] + top[3] + top[4] + top[5], summaryRow = 4.3, foot = 8 + 4.5 + 1;
+    const double fixedTop = top[0] + top[1] + top[2] + top[3] + top[4] + top[5], summaryRow = 4.3, foot = 11 + 4.5 + 1;
     const int fillRows = Layout::kPageRows - 3 - summaryEnd;
     const double fill = 170.0 - fixedTop - summaryRow * S - foot;
     const double fillRow = fill / std::max(fillRows, 1);
@@ -1006,7 +1042,7 @@ void Planner::charts() {
     for (int r = 0; r < 6; ++r) plan_.rowHeightsMm.push_back({r, top[r]});
     for (int r = Layout::kSummaryFirstRow; r < summaryEnd; ++r) plan_.rowHeightsMm.push_back({r, summaryRow});
     for (int r = summaryEnd; r < Layout::kPageRows - 3; ++r) plan_.rowHeightsMm.push_back({r, fillRow});
-    plan_.rowHeightsMm.push_back({Layout::kPageRows - 3, 8});
+    plan_.rowHeightsMm.push_back({Layout::kPageRows - 3, 11});
     plan_.rowHeightsMm.push_back({Layout::kPageRows - 2, 4.5});
     plan_.rowHeightsMm.push_back({Layout::kPageRows - 1, 1});
     // Page 2: 40 rows of 4.25 mm.
@@ -1157,7 +1193,7 @@ ReportPlan Planner::run() {
     plan_.pageBreakRows = {Layout::kPageRows, Layout::kWorkRow};
     // Segment | measure | median price | index | change | change | band low | high | sales |
     // flags | why | (margin): 26 cm, fitted to the landscape page's width.
-    plan_.columnWidthsMm = {46, 34, 22, 14, 17, 17, 14, 14, 15, 14, 57, 4};
+    plan_.columnWidthsMm = {42, 34, 22, 14, 17, 17, 14, 14, 15, 22, 53, 4};
     const std::string range =
         fmt::format("{} .. {}", periodLabel(firstKey_, freq_), periodLabel(lastKey, freq_));
     plan_.status = fmt::format("{}: {} sales, {} segment{}, {} periods ({}), sales up to {}{}", plan_.sheetName,
