@@ -74,14 +74,7 @@ BacktestInput readInput(const Call& call) {
     const Range& prices = call.required("prices");
     const Range* chars = givenRange(call, "characteristics");
     const Range* strata = givenRange(call, "strata");
-    const Range* changed = givenRange(call, "changed");
-    if (changed && changed->rows * changed->cols == 1 && dates.rows != 1) {
-        if (cellFlag(changed->at(0, 0)))
-            throw InputError(
-                "changed must be a column aligned with dates (1 where the property changed "
-                "before that sale), got a single value");
-        changed = nullptr;
-    }
+    const Range* changed = changedColumn(call, dates);
     std::vector<NamedRange> cols = {{"ids", &ids}, {"dates", &dates}, {"prices", &prices}};
     if (changed) cols.push_back({"changed", changed});
     checkAligned(cols);

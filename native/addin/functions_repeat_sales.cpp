@@ -27,16 +27,7 @@ RepeatSalesInput readInput(const Call& call) {
     const Range& ids = call.required("ids");
     const Range& dates = call.required("dates");
     const Range& prices = call.required("prices");
-    const Range* changed = call.arg("changed") ? &*call.arg("changed") : nullptr;
-    if (changed && changed->rows * changed->cols == 1 && dates.rows != 1) {
-        // A single value: blank or 0 means no property changed; anything else is a mistake
-        // (every pair would be dropped).
-        if (cellFlag(changed->at(0, 0)))
-            throw InputError(
-                "changed must be a column aligned with dates (1 where the property changed "
-                "before that sale), got a single value");
-        changed = nullptr;
-    }
+    const Range* changed = changedColumn(call, dates);
     std::vector<NamedRange> cols = {{"ids", &ids}, {"dates", &dates}, {"prices", &prices}};
     if (changed) cols.push_back({"changed", changed});
     checkAligned(cols);  // one column each, same rows

@@ -223,6 +223,20 @@ void readingNotes(const std::vector<CellIssue>& issues, const std::vector<double
 
 }  // namespace
 
+const Range* changedColumn(const Call& call, const Range& dates) {
+    const Arg& arg = call.arg("changed");
+    if (!arg) return nullptr;
+    const Range* changed = &*arg;
+    if (changed->rows * changed->cols == 1 && dates.rows != 1) {
+        if (cellFlag(changed->at(0, 0)))
+            throw InputError(
+                "changed must be a column aligned with dates (1 where the property changed "
+                "before that sale), got a single value");
+        return nullptr;
+    }
+    return changed;
+}
+
 const Range* includeMask(const Call& call, std::size_t rows) {
     const Arg& includeArg = call.arg("include");
     if (!includeArg) return nullptr;

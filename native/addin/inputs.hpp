@@ -78,6 +78,9 @@ void cleanLabels(std::vector<std::string>& labels);
 // The argument "include" as a mask for a table of `rows` rows: nullptr when it chooses every
 // row (omitted, or a single 1, TRUE or blank); InputError for a single 0 or FALSE.
 const Range* includeMask(const Call& call, std::size_t rows);
+// The "changed" argument of the repeat-sales functions, or nullptr: a single blank or 0 means
+// no property changed; any other single value is refused (every pair would be dropped).
+const Range* changedColumn(const Call& call, const Range& dates);
 
 // Reads the arguments "dates", "prices" and the optional "include" mask into a SalesInput (a
 // header row is skipped with header=1). Marks rows where every given cell is blank. `extra`
