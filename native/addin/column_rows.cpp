@@ -2,6 +2,8 @@
 
 #include <algorithm>
 
+#include "inputs.hpp"
+
 namespace lintel::addin {
 
 std::size_t usedRows(const Range& r) {
@@ -60,6 +62,40 @@ std::vector<std::size_t> plannedRows(const std::vector<ArgKind>& kinds,
         }
     }
     return rows;
+}
+
+std::optional<std::size_t> refusedError(const FunctionSpec& f, const std::vector<Arg>& values,
+                                        const std::vector<ErrorAt>& errors) {
+    const int includeAt = f.argIndex("include");
+    const Range* include = nullptr;
+    if (includeAt >= 0 && static_cast<std::size_t>(includeAt) < values.size() &&
+        values[static_cast<std::size_t>(includeAt)])
+        include = &*values[static_cast<std::size_t>(includeAt)];
+    // Without include: the table ends at the last row holding a number in any Column argument.
+    std::size_t tableEnd = 0;
+    for (std::size_t a = 0; a < values.size() && a < f.args.size(); ++a) {
+        if (f.args[a].kind != ArgKind::Column || !values[a]) continue;
+        const Range& r = *values[a];
+        for (std::size_t i = r.rows; i > tableEnd; --i) {
+            bool number = false;
+            for (std::size_t c = 0; c < r.cols && !number; ++c) number = r.at(i - 1, c).isNumber();
+            if (number) {
+                tableEnd = i;
+                break;
+            }
+        }
+    }
+    for (std::size_t k = 0; k < errors.size(); ++k) {
+        const ErrorAt& e = errors[k];
+        if (includeAt >= 0) {
+            if (include && e.row < include->rows && include->cols >= 1 &&
+                !cellFlag(include->at(e.row, 0)))
+                continue;
+            return k;
+        }
+        if (e.row < tableEnd) return k;
+    }
+    return std::nullopt;
 }
 
 }  // namespace lintel::addin

@@ -38,6 +38,24 @@ std::vector<std::size_t> plannedRows(const std::vector<ArgKind>& kinds,
                                      const std::vector<std::optional<ColumnExtent>>& columns,
                                      const std::vector<Arg>& values);
 
+// An error value (#DIV/0!, #N/A ...) found in a Column argument while reading it: the
+// argument's position and the cell's row and column within the range as read. The cell itself
+// is left empty.
+struct ErrorAt {
+    std::size_t arg = 0, row = 0, col = 0;
+};
+
+// The error the call must refuse (its index in errors), or nullopt when every error lies where
+// the user has said the data does not reach; those cells are then read as empty:
+//  - a row the include argument leaves out (0, FALSE or blank in that row, as the functions
+//    read include), for a function that has one and is given a column of it;
+//  - for a function without an include argument (an index series, PERIODOF ...), a row below
+//    the last row holding a number in any of its Column arguments: a #N/A under the series is
+//    outside it.
+// Errors anywhere else are refused, so an answer never passes over a sale in silence.
+std::optional<std::size_t> refusedError(const FunctionSpec& f, const std::vector<Arg>& values,
+                                        const std::vector<ErrorAt>& errors);
+
 // Rows of r down to its last row with a non-empty cell (0 when all are empty).
 std::size_t usedRows(const Range& r);
 

@@ -259,6 +259,40 @@ class BadInputTest(SheetCalls, unittest.TestCase):
         self.assertEqual(cells[0][0], ("error", 504))
         self.assertTrue(office.alive())
 
+    def test_error_cells_where_the_call_does_not_use_them(self):
+        # Issue 10: an error value in a row the include column leaves out, or below an index
+        # series, is passed over (read as empty); in a row the call uses it is still named.
+        # Expected medians worked by hand: Jan {100, 120} -> 110, Feb {130} -> 130 (the
+        # #DIV/0! row is left out), Mar {150, 170} -> 160; index = 100 * median / 110.
+        s = self.sheet
+        s.getCellRangeByName("AA2:AA7").setDataArray(
+            ((44927.0,), (44930.0,), (44958.0,), (44960.0,), (44990.0,), (44995.0,)))
+        s.getCellRangeByName("AB2:AB7").setDataArray(((100.0,), (120.0,), (0.0,), (130.0,), (150.0,), (170.0,)))
+        s.getCellRangeByName("AB4").setFormula("=1/0")
+        s.getCellRangeByName("AC2:AC7").setDataArray(((1.0,), (1.0,), (0.0,), (1.0,), (1.0,), (1.0,)))
+        cells = self.array("AE1:AG4", "=INDEXMEDIAN(AA2:AA7;AB2:AB7;AC2:AC7)")
+        self.assertEqual([r[0] for r in cells[:3]], [44927.0, 44958.0, 44986.0])
+        for got, want in zip([r[1] for r in cells[:3]], [100.0, 100 * 130 / 110, 100 * 160 / 110]):
+            self.assertAlmostEqual(got, want, places=10)
+        self.assertEqual([r[2] for r in cells[:3]], [2.0, 1.0, 2.0])
+        # The same row chosen by include: the error is named.
+        s.getCellRangeByName("AC4").setValue(1.0)
+        cells = self.array("AE6:AG7", "=INDEXMEDIAN(AA2:AA7;AB2:AB7;AC2:AC7)")
+        self.assertEqual(cells[0][0], "Lintel: prices holds #DIV/0! in cell Sheet1.AB4: correct or clear that cell")
+        # An index series with #N/A below it (a whole column): the change is computed, the
+        # rows below the series stay blank; an #N/A inside the series is named.
+        s.getCellRangeByName("AI1:AI5").setDataArray(((100.0,), (101.0,), (102.0,), (103.0,), (104.0,)))
+        s.getCellRangeByName("AI8").setFormula("=NA()")
+        cells = self.array("AJ1:AJ8", "=INDEXCHANGE(AI:AI)")
+        self.assertEqual(cells[0][0], "")
+        self.assertAlmostEqual(cells[1][0], 1.0, places=12)  # 100 (101/100 - 1)
+        self.assertAlmostEqual(cells[4][0], 100 * (104 / 103 - 1), places=12)
+        self.assertEqual([r[0] for r in cells[5:]], ["", "", ""])
+        s.getCellRangeByName("AI3").setFormula("=NA()")
+        cells = self.array("AK1:AK8", "=INDEXCHANGE(AI:AI)")
+        self.assertEqual(cells[0][0], "Lintel: index holds #N/A in cell Sheet1.AI3: correct or clear that cell")
+        self.assertTrue(office.alive())
+
     def test_one_row_and_one_period(self):
         cells = self.array("D5:H6", "=INDEXMEDIAN(A1;B1)")
         self.assertEqual(cells[0][:3], [44927.0, 100.0, 1.0])

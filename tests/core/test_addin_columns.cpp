@@ -7,6 +7,7 @@
 #include "addin_test_cells.hpp"
 
 #include "column_rows.hpp"
+#include "function_table.hpp"
 #include "result_cost.hpp"
 
 using namespace lintel::addin;
@@ -114,6 +115,40 @@ BOOST_AUTO_TEST_CASE(misaligned_whole_columns_are_not_made_equal) {
 BOOST_AUTO_TEST_CASE(an_empty_whole_column_keeps_one_row) {
     const auto rows = plannedRows({ArgKind::Column}, {wholeColumn(0)}, {std::nullopt});
     BOOST_TEST(rows[0] == 1u);
+}
+
+BOOST_AUTO_TEST_CASE(error_cells_in_rows_left_out_are_passed_over) {
+    // INDEXMEDIAN(dates; prices; include): an error in prices row 2 (0-based) where include
+    // holds 0 is passed over; one in row 3 where include holds 1 is refused; without include
+    // every error is refused. Issue 10: errors in excluded rows gave Err:504 / a message.
+    const FunctionSpec& f = functionSpec("INDEXMEDIAN");
+    Range include = numbers(5, 5);
+    include.at(2, 0) = Cell::num(0);
+    std::vector<Arg> values = {numbers(5, 5, 45000), numbers(5, 5, 200000), include};
+    BOOST_TEST(!refusedError(f, values, {{1, 2, 0}}).has_value());
+    BOOST_TEST(refusedError(f, values, {{1, 2, 0}, {1, 3, 0}}).value() == 1u);
+    include.at(3, 0) = Cell::str("FALSE");  // FALSE as text, as cellFlag reads it
+    values[2] = include;
+    BOOST_TEST(!refusedError(f, values, {{1, 2, 0}, {1, 3, 0}}).has_value());
+    values[2] = std::nullopt;
+    BOOST_TEST(refusedError(f, values, {{1, 2, 0}}).value() == 0u);
+}
+
+BOOST_AUTO_TEST_CASE(error_cells_below_a_series_are_passed_over) {
+    // INDEXCHANGE(P:P) with 20 numbers and #N/A in row 25 (0-based 24): below the series,
+    // passed over; an error inside the series (row 5) is refused.
+    const FunctionSpec& f = functionSpec("INDEXCHANGE");
+    std::vector<Arg> values(f.args.size());
+    values[0] = numbers(25, 20, 100);
+    BOOST_TEST(!refusedError(f, values, {{0, 24, 0}}).has_value());
+    BOOST_TEST(refusedError(f, values, {{0, 5, 0}, {0, 24, 0}}).value() == 0u);
+    // INDEXREBASE(periods; index): the table reaches as far as any Column argument's numbers:
+    // an error in index row 22 while periods go on to row 25 is inside it.
+    const FunctionSpec& g = functionSpec("INDEXREBASE");
+    std::vector<Arg> two(g.args.size());
+    two[0] = numbers(25, 25, 45000);
+    two[1] = numbers(25, 20, 100);
+    BOOST_TEST(refusedError(g, two, {{1, 22, 0}}).value() == 0u);
 }
 
 BOOST_AUTO_TEST_CASE(set_rows_cuts_and_pads) {

@@ -149,8 +149,9 @@ std::string errorText(sal_Int32 code) {
 }
 
 // Reads the first `rows` rows of a Column argument: Calc's values down to its last row with
-// data, empty cells below. getDataArray gives an error cell as a void Any.
-Range readColumn(const ColumnSource& s, std::size_t rows, const char* name) {
+// data, empty cells below. getDataArray gives an error cell as a void Any: it is left empty
+// and its place added to `errors` (refusedError decides whether the call may go on).
+Range readColumn(const ColumnSource& s, std::size_t rows, std::size_t arg, std::vector<ErrorAt>& errors) {
     Range r;
     r.cols = s.extent.cols;
     r.rows = rows;
@@ -166,7 +167,10 @@ Range readColumn(const ColumnSource& s, std::size_t rows, const char* name) {
     for (sal_Int32 i = 0; i < data.getLength() && static_cast<std::size_t>(i) < toRead; ++i) {
         const auto& row = data[i];
         for (sal_Int32 j = 0; j < row.getLength() && static_cast<std::size_t>(j) < r.cols; ++j) {
-            if (!row[j].hasValue()) errorCell(s, name, i, j);
+            if (!row[j].hasValue()) {
+                errors.push_back({arg, static_cast<std::size_t>(i), static_cast<std::size_t>(j)});
+                continue;
+            }
             r.cells[static_cast<std::size_t>(i) * r.cols + static_cast<std::size_t>(j)] = toCell(row[j]);
         }
     }
@@ -212,12 +216,18 @@ std::vector<Arg> readArguments(const FunctionSpec& f, std::vector<UnoArg> args) 
         }
     }
     const std::vector<std::size_t> rows = plannedRows(kinds, extents, values);
+    std::vector<ErrorAt> errors;
     for (std::size_t i = 0; i < n; ++i) {
         if (sources[i]) {
-            values[i] = readColumn(*sources[i], rows[i], i < f.args.size() ? f.args[i].name.c_str() : "argument");
+            values[i] = readColumn(*sources[i], rows[i], i, errors);
         } else if (values[i] && values[i]->rows != rows[i]) {
             setRows(*values[i], rows[i]);
         }
+    }
+    if (const auto k = refusedError(f, values, errors)) {
+        const ErrorAt& e = errors[*k];
+        errorCell(*sources[e.arg], e.arg < f.args.size() ? f.args[e.arg].name.c_str() : "argument",
+                  static_cast<sal_Int32>(e.row), static_cast<sal_Int32>(e.col));
     }
     return values;
 }

@@ -43,8 +43,9 @@ UnoArg toArg(const com::sun::star::uno::Reference<com::sun::star::table::XCellRa
 
 // The arguments of a call of f as the add-in's cells. A Column argument is read only down to
 // its last row holding data; rows are then planned as column_rows.hpp says (whole columns cut
-// to their data, other ranges keep their size). Throws InputError when a Column argument
-// holds an error value, naming its cell.
+// to their data, other ranges keep their size). Throws InputError naming the cell when a Column
+// argument holds an error value where the call would use it (column_rows.hpp refusedError);
+// an error in a row the include argument leaves out, or below the table, reads as empty.
 std::vector<Arg> readArguments(const FunctionSpec& f, std::vector<UnoArg> args);
 
 // The result: a single value, or a sequence<sequence<any>> padded to a rectangle. A missing
