@@ -203,6 +203,19 @@ class ReportTest(unittest.TestCase):
         self.assertIn("$'Closed sales v1.2'.$A$2:$A$901", table.getArrayFormula())
         self.assertEqual(table.getCellByPosition(1, 4).getValue(), 100.0)
 
+    def test_sheet_name_with_a_quote_and_whole_columns(self):
+        # Issue 10: a sheet name with a quote failed with an internal address; data=Sales.A:J
+        # (whole columns) failed half-built.
+        self.doc.Sheets.getByIndex(0).Name = "Kit's sales"
+        settings = SETTINGS.format(last=len(self.rows)).replace("data=Sales.A1:E901", "data=Kit's sales.A:E")
+        status = self.build(settings)
+        self.assertTrue(status.startswith("Report East: "), status)
+        table = self.named("Lintel_r1_all_median")
+        self.assertEqual(table.getCellByPosition(1, 4).getValue(), 100.0)
+        direct = self.doc.Sheets.getByName("Report East")
+        self.assertNotIn("Lintel:", " ".join(str(v) for r in table.getDataArray() for v in r))
+        self.assertTrue(office.alive())
+
     def test_bad_settings_give_messages(self):
         last = len(self.rows)
         cases = {
@@ -214,10 +227,17 @@ class ReportTest(unittest.TestCase):
                 'Lintel: unknown method "magic"',
             SETTINGS.format(last=last).replace("data=Sales.A1", "data=Nowhere.A1"):
                 'Lintel: there is no sheet "Nowhere" for the sales data',
+            # Issue 10: a misspelt method in an options. key was ignored.
+            SETTINGS.format(last=last) + "options.hedonics=smooth=trend\n":
+                'Lintel: unknown report setting "options.hedonics": options. is followed by a method',
+            # Issue 10: a 10 KB value is not echoed whole into the message.
+            SETTINGS.format(last=last) + "quote=" + "x" * 10000 + "\n":
+                'Lintel: report setting quote must be auto, median, mean, mix, hedonic or repeat, got "xxxx',
         }
         for settings, want in cases.items():
             got = self.build(settings)
             self.assertTrue(got.startswith(want), got)
+            self.assertLess(len(got), 300)
         self.assertTrue(self.build(mode="update", sheet="Sales").startswith(
             'Lintel: sheet "Sales" is not a Lintel report'))
         self.assertTrue(office.alive())
@@ -462,6 +482,15 @@ class ReportTest(unittest.TestCase):
         row = labels.index("Hedonic time dummy")
         self.assertTrue(status[row].startswith('Lintel: unknown option "colour"'), status)
         self.assertEqual(status[labels.index("Median")], "ok")
+
+    def test_every_method_failing_is_said(self):
+        # Issue 10: the builder said success while every table was Err:504. An error value in
+        # the price column stops every method (and the data check feeding the include).
+        self.doc.Sheets.getByName("Sales").getCellRangeByName("B5").setFormula("=1/0")
+        got = self.build(SETTINGS.format(last=len(self.rows)))
+        self.assertTrue(got.startswith("Report East: "), got)
+        self.assertIn("every method failed (2): Median: ", got, got)
+        self.assertIn("Mean: ", got)
 
     def test_a_partial_last_month_is_left_out_of_the_headline(self):
         # Monthly; East's last sale moved to the 14th of a month after the last full one.

@@ -8,11 +8,13 @@
 #include <fmt/format.h>
 
 #include "diagnostics.hpp"
+#include "options.hpp"
 #include "text.hpp"
 
 namespace lintel::report {
 
 using addin::trim;
+using addin::shortText;
 
 namespace {
 
@@ -110,7 +112,7 @@ ReportSettings ReportSettings::parse(const std::string& text) {
         if (line.empty() || line[0] == '#') continue;
         const auto eq = line.find('=');
         if (eq == std::string::npos)
-            throw InputError(fmt::format("report setting \"{}\" has no value (write key=value)", line));
+            throw InputError(fmt::format("report setting \"{}\" has no value (write key=value)", shortText(line)));
         const std::string key = trim(line.substr(0, eq));
         const std::string value = trim(line.substr(eq + 1));
         if (key == "data") s.dataRange = value;
@@ -137,13 +139,13 @@ ReportSettings ReportSettings::parse(const std::string& text) {
             for (Method m : allMethods()) ok = ok || value == methodKey(m);
             if (!ok || value == "refhome")
                 throw InputError(fmt::format(
-                    "report setting quote must be auto, median, mean, mix, hedonic or repeat, got \"{}\"", value));
+                    "report setting quote must be auto, median, mean, mix, hedonic or repeat, got \"{}\"", shortText(value)));
             s.quote = value;
         } else if (key == "segmentmin" || key == "maxsegments") {
             char* end = nullptr;
             const long n = std::strtol(value.c_str(), &end, 10);
             if (value.empty() || *end || n < 1 || n > 1000000)
-                throw InputError(fmt::format("report setting {} must be a whole number of at least 1, got \"{}\"", key, value));
+                throw InputError(fmt::format("report setting {} must be a whole number of at least 1, got \"{}\"", key, shortText(value)));
             if (key == "maxsegments" && n > 12)
                 throw InputError(fmt::format("report setting maxsegments is at most 12 (the segments the client page "
                                              "holds besides the whole market), got {}; build a second report for the "
@@ -152,20 +154,20 @@ ReportSettings ReportSettings::parse(const std::string& text) {
         }
         else if (key == "partial") {
             if (value != "include" && value != "exclude" && !value.empty())
-                throw InputError(fmt::format("report setting partial must be include or exclude, got \"{}\"", value));
+                throw InputError(fmt::format("report setting partial must be include or exclude, got \"{}\"", shortText(value)));
             s.includePartial = value == "include";
         } else if (key == "thin") {
             char* end = nullptr;
             const long n = std::strtol(value.c_str(), &end, 10);
             if (value.empty() || *end || n < 0 || n > 1000000)
-                throw InputError(fmt::format("report setting thin must be a whole number of sales, got \"{}\"", value));
+                throw InputError(fmt::format("report setting thin must be a whole number of sales, got \"{}\"", shortText(value)));
             s.thin = static_cast<int>(n);
         }
         else if (key == "level") {
             char* end = nullptr;
             s.level = std::strtod(value.c_str(), &end);
             if (value.empty() || *end || !(s.level > 0 && s.level < 1))
-                throw InputError(fmt::format("report setting level must lie between 0 and 1, got \"{}\"", value));
+                throw InputError(fmt::format("report setting level must lie between 0 and 1, got \"{}\"", shortText(value)));
         } else if (key == "methods") {
             s.methods.clear();
             for (const auto& k : splitList(value)) {
@@ -173,15 +175,21 @@ ReportSettings ReportSettings::parse(const std::string& text) {
                                        [&](Method m) { return k == methodKey(m); });
                 if (it == allMethods().end())
                     throw InputError(fmt::format(
-                        "unknown method \"{}\" (known: median, mean, mix, hedonic, repeat, refhome)", k));
+                        "unknown method \"{}\" (known: median, mean, mix, hedonic, repeat, refhome)", shortText(k)));
                 if (!s.has(*it)) s.methods.push_back(*it);
             }
         } else if (key.rfind("options.", 0) == 0) {
-            s.advanced[key.substr(8)] = value;
+            const std::string m = key.substr(8);
+            if (std::none_of(allMethods().begin(), allMethods().end(),
+                             [&](Method x) { return m == methodKey(x); }))
+                throw InputError(fmt::format(
+                    "unknown report setting \"{}\": options. is followed by a method (median, mean, "
+                    "mix, hedonic, repeat, refhome)", shortText(key)));
+            s.advanced[m] = value;
         } else if (key.rfind("segment.", 0) == 0) {
             s.segment.push_back({key.substr(8), splitList(value)});
         } else {
-            throw InputError(fmt::format("unknown report setting \"{}\"", key));
+            throw InputError(fmt::format("unknown report setting \"{}\"", shortText(key)));
         }
     }
     // Keep report order whatever order the text listed.

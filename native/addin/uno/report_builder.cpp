@@ -990,14 +990,19 @@ std::string buildReport(const Reference<css::sheet::XSpreadsheetDocument>& doc, 
     for (const auto& [label, cell] : plan.methodCells) {
         Reference<css::table::XCell> c = sheet->getCellByPosition(cell.second, cell.first);
         const std::string t = utf8(Reference<css::text::XText>(c, UNO_QUERY_THROW)->getString());
-        if (t.rfind("Lintel:", 0) == 0) {
+        // A Lintel message, or a Calc error value (Err:504 ...) where the status formula stands.
+        if (t.rfind("Lintel:", 0) == 0 || c->getError() != 0) {
             ++failed;
-            failures += fmt::format("{}{}: {}", failures.empty() ? "" : "; ", label, t.substr(8));
+            failures += fmt::format("{}{}: {}", failures.empty() ? "" : "; ", label,
+                                    t.rfind("Lintel:", 0) == 0 ? t.substr(8) : "Calc error " + t);
         }
     }
     std::string status = plan.status;
     if (status.rfind(plan.sheetName, 0) == 0) status = target + status.substr(plan.sheetName.size());
-    if (failed) status += fmt::format("; {} method{} failed: {}", failed, failed > 1 ? "s" : "", failures);
+    if (failed && static_cast<std::size_t>(failed) == plan.methodCells.size())
+        status += fmt::format("; every method failed ({}): {}", failed, failures);
+    else if (failed)
+        status += fmt::format("; {} method{} failed: {}", failed, failed > 1 ? "s" : "", failures);
     try {
         Reference<css::sheet::XSpreadsheetView> view(model->getCurrentController(), UNO_QUERY);
         if (view.is()) view->setActiveSheet(sheet);
