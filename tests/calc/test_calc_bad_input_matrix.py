@@ -404,7 +404,13 @@ def build_cases(fn, spec, sh):
         if a.role in ("sales", "index", "mask"):
             n = nrows[a.name]
             wrong = "number" if COLUMN_TYPE[a.cols[0]] == "text" else "text"
-            add(f"wrong type ({wrong})", sh.derived(a.cols, "text"))
+            if a.name == "changed":  # text that is no flag is refused (docs/errors.md)
+                want = ('Lintel: changed holds "abc" in row 1: write 1 (or TRUE) where the property '
+                        'changed before that sale, 0 or nothing otherwise')
+                add(f"wrong type ({wrong})", sh.derived(a.cols, "text"),
+                    expect_message(lambda s, w=want: s == w, repr(want)), "errors.md")
+            else:
+                add(f"wrong type ({wrong})", sh.derived(a.cols, "text"))
             add("blank", sh.derived(a.cols, "blank"))
             for err, code, name in (("div0", 532, "#DIV/0!"), ("na", 32767, "#N/A")):
                 ref = sh.derived(a.cols, err)
