@@ -738,9 +738,16 @@ def render(results, total):
     groups = [label for _, label in SUMMARY_KINDS if label]
     ncases = sum(len(c) for _, c, _ in results)
     nfail = sum(1 for _, cs, _ in results for c in cs if c.problem and not KNOWN.get((c.fn, c.arg, c.kind)))
+    every = [c for _, cs, _ in results for c in cs]
+    slow = max(every, key=lambda c: c.seconds)
+    longest = max((len(c.outcome) for c in every if isinstance(c.outcome, str)), default=0)
+    internal = sum(1 for c in every if c.problem and c.problem.startswith("internal fault"))
     lines = ["# Bad-input matrix (real Calc)", "",
              f"{ncases} cases over {len(results)} functions, {total:.1f} s in all; "
-             f"{nfail} unexpected outcome(s), {len(KNOWN)} known finding(s).", "",
+             f"{nfail} unexpected outcome(s), {len(KNOWN)} known finding(s). Slowest case: "
+             f"{slow.seconds:.1f} s ({slow.fn} {slow.arg}, {slow.kind}); longest message: "
+             f"{longest} characters; internal faults: {internal}; no hang (limit "
+             f"{HANG_SECONDS:.0f} s a call: a hang stops the test).", "",
              "Summary: per function and kind of bad input (over all its arguments), how many cases"
              " gave a value (V), a `Lintel: ...` message (M) or Calc's own error before the call"
              " (E); `!` marks a case that failed its check. Each case changes one argument of a"
