@@ -750,7 +750,7 @@ def render(results, total):
              f"{HANG_SECONDS:.0f} s a call: a hang stops the test).", "",
              "Summary: per function and kind of bad input (over all its arguments), how many cases"
              " gave a value (V), a `Lintel: ...` message (M) or Calc's own error before the call"
-             " (E); `!` marks a case that failed its check. Each case changes one argument of a"
+             " (E); `!` marks a case that failed its check (the known findings below included). Each case changes one argument of a"
              " valid call (one row, one period and whole column: every row-aligned argument"
              " together).", "",
              "| function | " + " | ".join(groups) + " |", "|---" * (len(groups) + 1) + "|"]
