@@ -21,6 +21,14 @@ std::string shown(const Cell& c) {
     return shortText(c.text);
 }
 
+// Calc hands a reference to an empty cell to an optional argument as the number 0, which the
+// add-in cannot tell from a typed 0: a message refusing a 0 argument says so. (An option's
+// value is text, or a cell of an options range, where an empty cell stays empty.)
+std::string emptyCellHint(const Cell& c, const std::string& what) {
+    if (!c.isNumber() || c.number != 0 || what.rfind("option", 0) == 0) return "";
+    return " (an empty cell reads as 0)";
+}
+
 bool digits(const std::string& s, std::size_t& i) {
     const std::size_t start = i;
     while (i < s.size() && std::isdigit(static_cast<unsigned char>(s[i]))) ++i;
@@ -86,8 +94,8 @@ long whole(const Cell& c, const std::string& what, long min, long max) {
         if (x > static_cast<double>(max) && x == std::floor(x))
             throw InputError(fmt::format("{} must be a whole number from {} to {}, got {}", what,
                                          min, max, x));
-        throw InputError(fmt::format("{} must be a whole number of at least {}, got {}", what,
-                                     min, x));
+        throw InputError(fmt::format("{} must be a whole number of at least {}, got {}{}", what,
+                                     min, x, x < static_cast<double>(min) ? emptyCellHint(c, what) : ""));
     }
     return static_cast<long>(x);
 }
@@ -110,13 +118,15 @@ std::size_t word(const Cell& c, const std::string& what, const std::vector<std::
     std::string list;
     for (std::size_t i = 0; i < allowed.size(); ++i)
         list += (i == 0 ? "" : i + 1 == allowed.size() ? " or " : ", ") + ("\"" + allowed[i] + "\"");
-    throw InputError(fmt::format("{} must be {}, got \"{}\"", what, list, shortText(v)));
+    throw InputError(fmt::format("{} must be {}, got \"{}\"{}", what, list, shortText(v),
+                                 emptyCellHint(c, what)));
 }
 
 Frequency frequency(const Cell& c, const std::string& what) {
     const auto f = c.isText() ? parseFrequency(trim(c.text)) : std::nullopt;
     if (!f)
-        throw InputError(fmt::format("{} must be \"M\", \"Q\" or \"Y\", got \"{}\"", what, shown(c)));
+        throw InputError(fmt::format("{} must be \"M\", \"Q\" or \"Y\", got \"{}\"{}", what, shown(c),
+                                     emptyCellHint(c, what)));
     return *f;
 }
 
@@ -134,6 +144,8 @@ double date(const Cell& c, const std::string& what, const CallContext& ctx) {
                                          acceptedDateForms(ctx.dateOrder)));
         throw InputError(fmt::format("{}: {}", what, t.message));
     }
+    if (!emptyCellHint(c, what).empty())  // serial 0, 1899-12-30: no date anyone means
+        throw InputError(fmt::format("{} must be a date, got 0{}", what, emptyCellHint(c, what)));
     const double s = serial && !comma ? *serial + ctx.dateOffset : cellDate(c, ctx);
     if (!isUsableSerial(s))
         throw InputError(fmt::format("{} must be a date, got \"{}\"", what, shown(c)));

@@ -89,8 +89,7 @@ BacktestInput readInput(const Call& call) {
     if (chars) in.characteristics = readCharacteristics(*chars, h);
     if (strata)
         for (std::size_t c = 0; c < strata->cols; ++c) in.strata.push_back(keyColumn(*strata, h, c));
-    if (changed)
-        for (std::size_t i = h; i < changed->rows; ++i) in.changed.push_back(cellFlag(changed->at(i, 0)));
+    if (changed) in.changed = changedFlags(*changed, h);
     in.methods = parseMethodRows(methodRows(call, chars != nullptr, strata != nullptr));
     return in;
 }

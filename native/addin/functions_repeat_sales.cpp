@@ -40,11 +40,7 @@ RepeatSalesInput readInput(const Call& call) {
     // Ids as cellKey writes them: text as it is (the core trims it), numbers in canonical form
     // (the same text as the core's propertyIdFromNumber, so 123 and "123" are one property).
     in.id = labelColumn(ids, h, 0, call.options<ReadOptions>().labels);
-    if (changed) {
-        in.changed.reserve(changed->rows - h);
-        for (std::size_t i = h; i < changed->rows; ++i)
-            in.changed.push_back(cellFlag(changed->at(i, 0)));
-    }
+    if (changed) in.changed = changedFlags(*changed, h);
     return in;
 }
 

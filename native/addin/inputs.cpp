@@ -12,6 +12,8 @@
 
 #include "diagnostics.hpp"
 #include "label_text.hpp"
+#include "options.hpp"
+#include "text.hpp"
 #include "text_keys.hpp"
 
 namespace lintel::addin {
@@ -235,6 +237,27 @@ const Range* changedColumn(const Call& call, const Range& dates) {
         return nullptr;
     }
     return changed;
+}
+
+std::vector<char> changedFlags(const Range& changed, std::size_t first) {
+    std::vector<char> out;
+    out.reserve(changed.rows > first ? changed.rows - first : 0);
+    for (std::size_t i = first; i < changed.rows; ++i) {
+        const Cell& c = changed.at(i, 0);
+        if (!c.isText()) {
+            out.push_back(cellFlag(c));
+            continue;
+        }
+        const std::string t = lower(trim(c.text));
+        if (t == "1" || t == "true" || t == "yes") out.push_back(1);
+        else if (t.empty() || t == "0" || t == "false" || t == "no") out.push_back(0);
+        else
+            throw InputError(fmt::format(
+                "changed holds \"{}\" in row {}: write 1 (or TRUE) where the property changed "
+                "before that sale, 0 or nothing otherwise",
+                shortText(c.text), changed.sheetRow ? changed.sheetRow + i : i + 1));
+    }
+    return out;
 }
 
 const Range* includeMask(const Call& call, std::size_t rows) {

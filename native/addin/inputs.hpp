@@ -81,6 +81,10 @@ const Range* includeMask(const Call& call, std::size_t rows);
 // The "changed" argument of the repeat-sales functions, or nullptr: a single blank or 0 means
 // no property changed; any other single value is refused (every pair would be dropped).
 const Range* changedColumn(const Call& call, const Range& dates);
+// The flags of a "changed" column from row `first` on (after a header): 1, TRUE or yes for a
+// changed property, 0, FALSE, no or blank for none. Any other text ("x", "renovated") is
+// refused naming its row, rather than read as "not changed" in silence.
+std::vector<char> changedFlags(const Range& changed, std::size_t first);
 
 // Reads the arguments "dates", "prices" and the optional "include" mask into a SalesInput (a
 // header row is skipped with header=1). Marks rows where every given cell is blank. `extra`

@@ -29,7 +29,10 @@ OptionBag OptionBag::parse(const Arg& arg, const FunctionSpec& spec) {
         const Cell& c = r.at(0, 0);
         if (c.isEmpty()) return bag;
         if (!c.isText())
-            throw InputError("options must be text \"key=value; key=value\" or a two-column range");
+            throw InputError(std::string("options must be text \"key=value; key=value\" or a two-column range") +
+                             (c.isNumber() && c.number == 0
+                                  ? " (an empty cell reads as 0)"
+                                  : ""));
         const std::string& text = c.text;
         std::size_t pos = 0;
         while (pos <= text.size()) {

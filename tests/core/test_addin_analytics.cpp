@@ -221,7 +221,7 @@ BOOST_AUTO_TEST_CASE(volatility_scalar_notes_and_lag) {
     BOOST_TEST(messageOf(callOmitting("INDEXVOLATILITY", {numbers(v), number(1.5), {}})) ==
                "Lintel: lag must be a whole number of at least 1, got 1.5");
     BOOST_TEST(messageOf(callOmitting("INDEXVOLATILITY", {numbers(v), number(0), {}})) ==
-               "Lintel: lag must be a whole number of at least 1, got 0");
+               "Lintel: lag must be a whole number of at least 1, got 0 (an empty cell reads as 0)");
     BOOST_TEST(messageOf(callOmitting("INDEXVOLATILITY", {numbers(v), {}, text("freq=W")})) ==
                "Lintel: option freq must be \"M\", \"Q\" or \"Y\", got \"W\"");
     BOOST_TEST(messageOf(callOmitting("INDEXVOLATILITY", {numbers({100, 110}), {}, {}})) ==

@@ -121,6 +121,42 @@ BOOST_AUTO_TEST_CASE(long_option_text_is_not_echoed_whole) {
     BOOST_TEST(m.find("unknown option \"xxxx") != std::string::npos);
 }
 
+BOOST_AUTO_TEST_CASE(a_zero_argument_may_be_an_empty_cell) {
+    // Calc hands a reference to an empty cell to an optional argument as the number 0
+    // (measured in tests/calc/test_calc_bad_input_matrix.py, kind "blank"): a message that
+    // refuses the 0 says so, instead of 'got "0"' or a base of 1899-12-30.
+    const std::string hint = " (an empty cell reads as 0)";
+    std::vector<Arg> args(6);
+    args[0] = column({Cell::num(44927), Cell::num(44958)});
+    args[1] = column({Cell::num(100), Cell::num(110)});
+    args[3] = number(0);
+    BOOST_TEST(messageOf(callFunction(*findFunctionByName("INDEXMEDIAN"), args, {})) ==
+               "Lintel: freq must be \"M\", \"Q\" or \"Y\", got \"0\"" + hint);
+    args[3] = Arg();
+    args[4] = number(0);
+    BOOST_TEST(messageOf(callFunction(*findFunctionByName("INDEXMEDIAN"), args, {})) ==
+               "Lintel: base must be a date, got 0" + hint);
+    args[4] = Arg();
+    args[5] = number(0);
+    BOOST_TEST(messageOf(callFunction(*findFunctionByName("INDEXMEDIAN"), args, {})) ==
+               "Lintel: options must be text \"key=value; key=value\" or a two-column range" + hint);
+    std::vector<Arg> change(4);
+    change[0] = column({Cell::num(100), Cell::num(101), Cell::num(103)});
+    change[1] = number(0);
+    BOOST_TEST(messageOf(callFunction(*findFunctionByName("INDEXCHANGE"), change, {})) ==
+               "Lintel: lag must be a whole number of at least 1, got 0" + hint);
+    change[1] = Arg();
+    change[2] = number(0);
+    BOOST_TEST(messageOf(callFunction(*findFunctionByName("INDEXCHANGE"), change, {})) ==
+               "Lintel: kind must be \"pct\", \"log\" or \"annual\", got \"0\"" + hint);
+    // Other numbers, and a 0 inside the options text, keep their plain messages.
+    change[2] = number(7);
+    BOOST_TEST(messageOf(callFunction(*findFunctionByName("INDEXCHANGE"), change, {})) ==
+               "Lintel: kind must be \"pct\", \"log\" or \"annual\", got \"7\"");
+    BOOST_TEST(errorOf([] { meanOptions(text("minsales=0")); }) ==
+               "option minsales must be a whole number of at least 1, got 0");
+}
+
 BOOST_AUTO_TEST_CASE(mismatched_ranges_message) {
     const FunctionSpec& spec = *findFunctionByName("INDEXMEDIAN");
     std::vector<Arg> args(6);

@@ -158,6 +158,26 @@ BOOST_AUTO_TEST_CASE(table_entries_have_the_fixed_names_and_argument_orders) {
     BOOST_TEST(opts[0].defaultText == "cs");
 }
 
+BOOST_AUTO_TEST_CASE(changed_text_that_is_no_flag_is_refused) {
+    // Issue 10, the bad-input matrix (kind "wrong type" of changed): a changed column of
+    // text such as "x" was read as "not changed" in silence, so every pair was kept.
+    Sheet s = hand();
+    s.changed[3] = Cell::str("x");
+    const std::string want = "Lintel: changed holds \"x\" in row 4: write 1 (or TRUE) where the "
+                             "property changed before that sale, 0 or nothing otherwise";
+    BOOST_TEST(messageOf(call("CHAINRS", chainArgs(s, "method=bmn; minhold=0", true))) == want);
+    BOOST_TEST(messageOf(call("RSPAIRS", pairArgs(s, "minhold=0", true))) == want);
+    // The words of a flag, any case and with blanks around, still read as flags.
+    Sheet t = hand();
+    t.changed[3] = Cell::str(" TRUE ");
+    t.changed[1] = Cell::str("no");
+    t.changed[5] = Cell::str("");
+    Sheet u = hand();
+    u.changed[3] = Cell::num(1);
+    sameIndex(call("CHAINRS", chainArgs(t, "method=bmn; minhold=0", true)),
+              call("CHAINRS", chainArgs(u, "method=bmn; minhold=0", true)));
+}
+
 BOOST_AUTO_TEST_CASE(chainrs_hand_solved_bmn) {
     const OutTable t = call("CHAINRS", chainArgs(hand(), "method=bmn; titles=1"));
     BOOST_REQUIRE_EQUAL(t.rows.size(), 4u);
