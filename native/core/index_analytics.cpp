@@ -29,7 +29,7 @@ std::vector<double> logChanges(const std::vector<double>& index, int lag) {
     if (lag < 1) return out;
     for (std::size_t t = static_cast<std::size_t>(lag); t < index.size(); ++t) {
         const double a = index[t - lag], b = index[t];
-        if (hasValue(a) && hasValue(b) && a > 0 && b > 0) out[t] = 100.0 * std::log(b / a);
+        if (hasValue(a) && hasValue(b) && a > 0 && b > 0) out[t] = 100.0 * stats::logRatio(b, a);
     }
     return out;
 }
