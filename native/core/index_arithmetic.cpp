@@ -52,9 +52,12 @@ SeriesResult rebaseIndex(const IndexSeries& s, const RebaseOptions& o) {
         throw InputError(fmt::format("base {} lies outside the periods ({} .. {})",
                                      isoDate(baseDate), isoDate(s.start.front()),
                                      isoDate(s.start.back())));
-    if (!hasValue(s.value[b]) || s.value[b] <= 0)
+    if (!hasValue(s.value[b]))
         throw InputError(fmt::format("the base period {} has no index value",
                                      isoDate(s.start[b])));
+    if (s.value[b] <= 0)
+        throw InputError(fmt::format("the base period {} holds {}: an index value must be above 0",
+                                     isoDate(s.start[b]), s.value[b]));
     SeriesResult r;
     analytics::countValues(s.value, false, r.diag);
     r.values.assign(s.value.size(), kNoValue);
@@ -114,9 +117,13 @@ PriceAdjustment adjustPrice(const IndexSeries& s, double price, double saleDate,
             throw InputError(fmt::format("{} {} lies outside the index ({} .. {})", what,
                                          isoDate(date), isoDate(s.start.front()),
                                          isoDate(s.start.back())));
-        if (!hasValue(s.value[r]) || s.value[r] <= 0)
+        if (!hasValue(s.value[r]))
             throw InputError(fmt::format("{} {} falls on period {} without an index value",
                                          what, isoDate(date), isoDate(s.start[r])));
+        if (s.value[r] <= 0)
+            throw InputError(fmt::format(
+                "{} {} falls on period {}, which holds {}: an index value must be above 0", what,
+                isoDate(date), isoDate(s.start[r]), s.value[r]));
         return s.value[r];
     };
     PriceAdjustment r;

@@ -130,4 +130,19 @@ BOOST_AUTO_TEST_CASE(indexrebase_and_indexchange_near_1e308) {
     BOOST_TEST(startsWith(messageOf(t), "Lintel: the change at row 2 (1e+308 after 1e-308) is beyond"));
 }
 
+// A value of 0 or less: the messages say which row holds it instead of "no value".
+BOOST_AUTO_TEST_CASE(zero_and_negative_index_values_are_named) {
+    BOOST_TEST(messageOf(callOmitting("INDEXVOLATILITY", {numbers({100, 0, 100, 100})})) ==
+               "Lintel: volatility needs at least 2 changes over 1 period(s); the index gives 1 "
+               "(a value of 0 or less has no log change: row 2 holds 0)");
+    const Arg periods = numbers({serial(2024, 1, 1), serial(2024, 2, 1)});
+    BOOST_TEST(messageOf(call("INDEXREBASE", {periods, numbers({-5, 100}), number(serial(2024, 1, 1))})) ==
+               "Lintel: the base period 2024-01-01 holds -5: an index value must be above 0");
+    const OutTable t = call("PRICEADJUST", {number(100), number(serial(2024, 1, 4)),
+                                            number(serial(2024, 2, 4)), periods, numbers({-5, 100})});
+    BOOST_TEST(txt(t.rows[0][0]) ==
+               "Lintel: saledate 2024-01-04 falls on period 2024-01-01, which holds -5: an index "
+               "value must be above 0");
+}
+
 BOOST_AUTO_TEST_SUITE_END()
