@@ -145,4 +145,37 @@ BOOST_AUTO_TEST_CASE(zero_and_negative_index_values_are_named) {
                "value must be above 0");
 }
 
+// INDEXHEDONIC and CHAINRS work on log prices: prices 1e-300 in January and 1e300 in February
+// give log levels 1381.6 apart; 100 exp(1381.6) is beyond the largest double: a message, not
+// a blank (and the reverse base, 100 exp(-1381.6), not a 0).
+BOOST_AUTO_TEST_CASE(log_price_indexes_beyond_the_range_say_so) {
+    std::vector<double> dates, prices, sizes, ids;
+    for (int k = 0; k < 8; ++k) {
+        const bool feb = k >= 4;
+        dates.push_back(serial(2024, feb ? 2 : 1, 3 + k));
+        sizes.push_back(1 + k % 2);
+        prices.push_back((feb ? 1e300 : 1e-300) * (1 + k % 2) * (1 + 0.01 * k));
+        ids.push_back(k % 4 + 1);
+    }
+    OutTable t = callOmitting("INDEXHEDONIC", {numbers(dates), numbers(prices), numbers(sizes)});
+    BOOST_TEST(messageOf(t) == "Lintel: the index of period 2024-02 is beyond the largest number "
+                               "(about 1.8e308): the prices span too far");
+    std::vector<Arg> args(7);
+    args[0] = numbers(dates);
+    args[1] = numbers(prices);
+    args[2] = numbers(sizes);
+    args[5] = number(serial(2024, 2, 1));
+    t = callOmitting("INDEXHEDONIC", args);
+    BOOST_TEST(messageOf(t) == "Lintel: the index of period 2024-01 is below the smallest number "
+                               "(about 1e-308): the prices span too far");
+    std::vector<Arg> rs(8);
+    rs[0] = numbers(ids);
+    rs[1] = numbers(dates);
+    rs[2] = numbers(prices);
+    rs[7] = text("minhold=0; maxrate=0");  // the flip and rate screens off: the pairs stay
+    t = callOmitting("CHAINRS", rs);
+    BOOST_TEST(messageOf(t) == "Lintel: the index of period 2024-02 is beyond the largest number "
+                               "(about 1.8e308): the prices span too far");
+}
+
 BOOST_AUTO_TEST_SUITE_END()
