@@ -371,6 +371,14 @@ OutTable indexTableCells(const IndexResult& r, const Call& call) {
     titleRow(out, call);
     const double offset = call.ctx().dateOffset;
     for (int i = 0; i < t.axis.count; ++i) {
+        // An index beyond the range of numbers (100 exp(1418) from prices 1e616 apart) exists:
+        // a message, never a blank cell or a 0 in its place.
+        const double v = t.index[static_cast<std::size_t>(i)];
+        if (std::isinf(v) || v == 0)
+            throw InputError(fmt::format(
+                "the index of period {} is {}: the prices span too far",
+                t.axis.label(i), v == 0 ? "below the smallest number (about 1e-308)"
+                                        : "beyond the largest number (about 1.8e308)"));
         out.addRow();
         out.num(t.axis.start(i) - offset);
         out.num(t.index[i]);

@@ -282,7 +282,7 @@ BacktestResult backtest(const BacktestInput& in, const BacktestOptions& o, Backt
             }
             for (std::size_t i : pairsOf[static_cast<std::size_t>(f)]) {
                 const double v1 = valueAt(t, h.key1[i]), v2 = valueAt(t, h.key2[i]);
-                if (hasValue(v1) && hasValue(v2)) predicted[i] = std::log(v2 / v1);
+                if (hasValue(v1) && hasValue(v2)) predicted[i] = stats::logRatio(v2, v1);
             }
         }
         if (row.foldsFailed)

@@ -1,5 +1,6 @@
 #include "hodrick_prescott.hpp"
 
+#include <algorithm>
 #include <cmath>
 
 #include <Eigen/OrderingMethods>
@@ -49,13 +50,26 @@ HpResult hodrickPrescott(const std::vector<double>& y, const HpOptions& o) {
     r.cycle.assign(y.size(), kNoValue);
 
     const int m = r.last - r.first + 1;  // span length
+    // The system is solved for the deviations from the mean of the values, in units of a power
+    // of two near the largest |value|: a constant series gives its constant exactly (the
+    // deviations are 0), and values near the largest double neither overflow nor lose digits.
+    // The filter is linear and passes constants through, so the trend is the same.
+    double largest = 0;
+    for (int t = r.first; t <= r.last; ++t)
+        if (hasValue(y[t])) largest = std::max(largest, std::fabs(y[t]));
+    const double scale =
+        largest > 0 ? std::ldexp(1.0, std::min(-std::ilogb(largest), 1023)) : 1.0;
+    double centre = 0;
+    for (int t = r.first; t <= r.last; ++t)
+        if (hasValue(y[t])) centre += y[t] * scale;
+    centre /= static_cast<double>(observed);
     std::vector<Eigen::Triplet<double>> entries;
     entries.reserve(static_cast<std::size_t>(m) * 9);
     Eigen::VectorXd rhs = Eigen::VectorXd::Zero(m);
     for (int i = 0; i < m; ++i)
         if (hasValue(y[r.first + i])) {
             entries.emplace_back(i, i, 1.0);
-            rhs(i) = y[r.first + i];
+            rhs(i) = y[r.first + i] * scale - centre;
         }
     // lambda K'K, accumulated row by row of K: each row is (1, -2, 1) at columns i, i+1, i+2.
     const double c[3] = {1.0, -2.0, 1.0};
@@ -74,8 +88,16 @@ HpResult hodrickPrescott(const std::vector<double>& y, const HpOptions& o) {
         throw InputError("the trend could not be computed (numerical failure)");
     for (int i = 0; i < m; ++i) {
         const int t = r.first + i;
-        r.trend[t] = tau(i);
-        if (hasValue(y[t])) r.cycle[t] = y[t] - tau(i);
+        r.trend[t] = (tau(i) + centre) / scale;
+        if (!std::isfinite(r.trend[t]))
+            throw InputError(fmt::format(
+                "the trend at row {} is beyond the largest number (about 1.8e308)", t + 1));
+        if (hasValue(y[t])) {
+            r.cycle[t] = (rhs(i) - tau(i)) / scale;
+            if (!std::isfinite(r.cycle[t]))
+                throw InputError(fmt::format(
+                    "the cycle at row {} is beyond the largest number (about 1.8e308)", t + 1));
+        }
     }
     if (observed < static_cast<std::size_t>(m))
         r.diag.warn(fmt::format("{} period(s) without a value inside the series: trend bridged",

@@ -24,12 +24,20 @@ void countValues(const std::vector<double>& index, bool positiveOnly, Diagnostic
     d.drop(DropReason::NonPositiveValue, nonPos);
 }
 
+std::string nonPositiveNote(const std::vector<double>& index) {
+    for (std::size_t t = 0; t < index.size(); ++t)
+        if (hasValue(index[t]) && index[t] <= 0)
+            return fmt::format(" (a value of 0 or less has no log change: row {} holds {})", t + 1,
+                               index[t]);
+    return {};
+}
+
 std::vector<double> logChanges(const std::vector<double>& index, int lag) {
     std::vector<double> out(index.size(), kNoValue);
     if (lag < 1) return out;
     for (std::size_t t = static_cast<std::size_t>(lag); t < index.size(); ++t) {
         const double a = index[t - lag], b = index[t];
-        if (hasValue(a) && hasValue(b) && a > 0 && b > 0) out[t] = 100.0 * std::log(b / a);
+        if (hasValue(a) && hasValue(b) && a > 0 && b > 0) out[t] = 100.0 * stats::logRatio(b, a);
     }
     return out;
 }
@@ -57,8 +65,8 @@ VolatilityResult indexVolatility(const std::vector<double>& index, const Volatil
     r.volatility = stats::sampleSd(ch, &r.changes);
     if (r.changes < 2)
         throw InputError(fmt::format(
-            "volatility needs at least 2 changes over {} period(s); the index gives {}", o.lag,
-            r.changes));
+            "volatility needs at least 2 changes over {} period(s); the index gives {}{}", o.lag,
+            r.changes, analytics::nonPositiveNote(index)));
     if (o.annual) r.volatility *= std::sqrt(double(periodsPerYear(o.freq)) / o.lag);
     return r;
 }

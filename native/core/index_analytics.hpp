@@ -40,8 +40,13 @@ namespace lintel {
 namespace analytics {
 // rowsIn = rows; rowsUsed = rows with a value (> 0 when positiveOnly); drops counted by reason.
 void countValues(const std::vector<double>& index, bool positiveOnly, Diagnostics& diag);
-// 100 ln(I_t / I_{t-lag}); kNoValue where an end is missing or not positive.
+// 100 ln(I_t / I_{t-lag}); kNoValue where an end is missing or not positive. Computed from
+// the logs of each end where the ratio itself is beyond the range of a double (1e308 after
+// 1e-308: 141839 log points).
 std::vector<double> logChanges(const std::vector<double>& index, int lag);
+// " (a value of 0 or less has no log change: row n holds v)" for the first such row, or ""
+// when every value is positive: the reason a message about too few changes gives.
+std::string nonPositiveNote(const std::vector<double>& index);
 }  // namespace analytics
 
 // ---- INDEXVOLATILITY --------------------------------------------------------------------

@@ -5,6 +5,7 @@
 #include <fmt/format.h>
 
 #include "index_analytics.hpp"
+#include "statistics.hpp"
 
 namespace lintel {
 
@@ -51,14 +52,24 @@ SeriesResult rebaseIndex(const IndexSeries& s, const RebaseOptions& o) {
         throw InputError(fmt::format("base {} lies outside the periods ({} .. {})",
                                      isoDate(baseDate), isoDate(s.start.front()),
                                      isoDate(s.start.back())));
-    if (!hasValue(s.value[b]) || s.value[b] <= 0)
+    if (!hasValue(s.value[b]))
         throw InputError(fmt::format("the base period {} has no index value",
                                      isoDate(s.start[b])));
+    if (s.value[b] <= 0)
+        throw InputError(fmt::format("the base period {} holds {}: an index value must be above 0",
+                                     isoDate(s.start[b]), s.value[b]));
     SeriesResult r;
     analytics::countValues(s.value, false, r.diag);
     r.values.assign(s.value.size(), kNoValue);
     for (std::size_t i = 0; i < r.values.size(); ++i)
-        if (hasValue(s.value[i])) r.values[i] = 100.0 * s.value[i] / s.value[b];
+        if (hasValue(s.value[i])) {
+            r.values[i] = stats::mulDiv(100.0, s.value[i], s.value[b]);
+            if (std::isinf(r.values[i]) || (r.values[i] == 0 && s.value[i] != 0))
+                throw InputError(fmt::format(
+                    "the rebased value of period {} ({} x 100 / {}) is beyond the range of "
+                    "numbers (about 1e-308 to 1e308)",
+                    isoDate(s.start[i]), s.value[i], s.value[b]));
+        }
     return r;
 }
 
@@ -76,14 +87,22 @@ SeriesResult indexChange(const std::vector<double>& index, const ChangeOptions& 
         const double a = index[t - lag], b = index[t];
         if (!hasValue(a) || !hasValue(b) || a <= 0 || b <= 0) continue;
         const double ratio = b / a;
+        const double years = double(periodsPerYear(o.freq)) / o.lag;
         switch (o.kind) {
             case ChangeKind::Percent: r.values[t] = 100.0 * (ratio - 1.0); break;
-            case ChangeKind::Log: r.values[t] = 100.0 * std::log(ratio); break;
+            case ChangeKind::Log: r.values[t] = 100.0 * stats::logRatio(b, a); break;
             case ChangeKind::Annual:
-                r.values[t] = 100.0 * (std::pow(ratio, double(periodsPerYear(o.freq)) / o.lag) -
-                                       1.0);
+                r.values[t] = std::isnormal(ratio)
+                                  ? 100.0 * (std::pow(ratio, years) - 1.0)
+                                  : 100.0 * std::expm1(years * stats::logRatio(b, a));
                 break;
         }
+        // A change beyond the range of numbers (1e308 after 1e-308) exists: say so.
+        if (std::isinf(r.values[t]))
+            throw InputError(fmt::format(
+                "the change at row {} ({} after {}) is beyond the largest number (about "
+                "1.8e308); kind=log gives it in log points",
+                t + 1, b, a));
     }
     return r;
 }
@@ -98,15 +117,24 @@ PriceAdjustment adjustPrice(const IndexSeries& s, double price, double saleDate,
             throw InputError(fmt::format("{} {} lies outside the index ({} .. {})", what,
                                          isoDate(date), isoDate(s.start.front()),
                                          isoDate(s.start.back())));
-        if (!hasValue(s.value[r]) || s.value[r] <= 0)
+        if (!hasValue(s.value[r]))
             throw InputError(fmt::format("{} {} falls on period {} without an index value",
                                          what, isoDate(date), isoDate(s.start[r])));
+        if (s.value[r] <= 0)
+            throw InputError(fmt::format(
+                "{} {} falls on period {}, which holds {}: an index value must be above 0", what,
+                isoDate(date), isoDate(s.start[r]), s.value[r]));
         return s.value[r];
     };
     PriceAdjustment r;
     r.saleIndex = lookup(saleDate, "saledate");
     r.targetIndex = lookup(targetDate, "targetdate");
-    r.price = price * r.targetIndex / r.saleIndex;
+    r.price = stats::mulDiv(price, r.targetIndex, r.saleIndex);
+    if (std::isinf(r.price) || (r.price == 0 && price != 0))
+        throw InputError(fmt::format(
+            "the adjusted price {} x {} / {} is beyond the range of numbers (about 1e-308 to "
+            "1e308)",
+            price, r.targetIndex, r.saleIndex));
     r.diag.rowsIn = r.diag.rowsUsed = 1;
     return r;
 }

@@ -54,11 +54,17 @@ CompareResult indexCompare(const CompareInput& in, const CompareOptions& o) {
         } catch (const InputError& e) {
             note("signal-to-noise ratio", e.what());
         }
+        bool beyond = false;
         for (std::size_t t = 1; t < n; ++t) {
             const double a = col[t - 1], b = col[t];
             if (!hasValue(a) || !hasValue(b) || a <= 0 || b <= 0) continue;
             const double ch = std::fabs(100.0 * (b / a - 1.0));
-            if (!hasValue(row.maxAbsChange) || ch > row.maxAbsChange) row.maxAbsChange = ch;
+            if (std::isinf(ch)) beyond = true;  // 1e308 after 1e-308: exists, not a double
+            else if (!hasValue(row.maxAbsChange) || ch > row.maxAbsChange) row.maxAbsChange = ch;
+        }
+        if (beyond) {
+            row.maxAbsChange = kNoValue;
+            note("largest change", "a change is beyond the largest number, about 1.8e308 %");
         }
         if (c == 0) {
             row.lag = 0;

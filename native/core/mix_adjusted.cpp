@@ -212,8 +212,11 @@ CellPool poolCells(const Cells& c, const MixInput& in, const ScreenedSales& s,
     for (std::size_t k = 0; k < HT; ++k) p.offset[k + 1] += p.offset[k];
     p.pool.resize(s.rows.size());
     std::vector<std::size_t> next(p.offset.begin(), p.offset.end() - 1);
+    // Prices near the largest double scaled by a power of two (sales.hpp): the value sums and
+    // the means stay finite; relatives and value weights do not change.
+    const std::vector<double> price = scaledPrices(in.sales, s);
     for (std::size_t j = 0; j < s.rows.size(); ++j)
-        p.pool[next[c.at(sid[j], s.period[j])]++] = in.sales.price[s.rows[j]];
+        p.pool[next[c.at(sid[j], s.period[j])]++] = price[j];
     return p;
 }
 

@@ -24,9 +24,11 @@ IndexResult rawIndex(const SalesInput& sales, const RawIndexOptions& o, Statisti
     IndexResult r;
     const ScreenedSales s = screenSales(sales, o.freq, r.diag);
     const int T = s.axis.count;
+    // Prices near the largest (or smallest) double are brought near 1 by a power of two first:
+    // sums and squares then stay finite, and the index, a ratio, is the same.
+    const std::vector<double> price = scaledPrices(sales, s);
     std::vector<std::vector<double>> byPeriod(T);
-    for (std::size_t j = 0; j < s.rows.size(); ++j)
-        byPeriod[s.period[j]].push_back(sales.price[s.rows[j]]);
+    for (std::size_t j = 0; j < s.rows.size(); ++j) byPeriod[s.period[j]].push_back(price[j]);
 
     std::vector<double> level(T, kNoValue), lo(T, kNoValue), hi(T, kNoValue);
     r.table.axis = s.axis;

@@ -16,6 +16,7 @@
 #include <fmt/format.h>
 
 #include "repeat_sales_internal.hpp"
+#include "statistics.hpp"
 #include "text_keys.hpp"
 
 namespace lintel {
@@ -134,7 +135,7 @@ std::size_t addPair(BuiltPairs& b, std::size_t rowA, std::size_t rowB, std::uint
     b.months.push_back(datesOk ? monthsBetween(ca, cb) : kNoValue);
     double y = kNoValue, rate = kNoValue;
     if (std::isfinite(pa) && std::isfinite(pb) && pa > 0 && pb > 0) {
-        y = std::log(pb / pa);
+        y = stats::logRatio(pb, pa);  // ln(pb / pa), also when pb / pa is beyond a double
         if (datesOk && dayB > dayA) rate = y * 365.25 / (dayB - dayA);
     }
     b.y.push_back(y);

@@ -5,6 +5,10 @@
 #include <climits>
 #include <cmath>
 
+#include <fmt/format.h>
+
+#include "statistics.hpp"
+
 namespace lintel {
 
 std::optional<DropReason> saleProblem(double date, double price) {
@@ -74,6 +78,28 @@ ScreenedSales screenSales(const SalesInput& in, Frequency freq, Diagnostics& dia
         throw InputError(why);
     }
     return out;
+}
+
+std::vector<double> scaledPrices(const SalesInput& in, const ScreenedSales& s) {
+    std::vector<double> price(s.rows.size());
+    std::size_t hi = 0, lo = 0;  // positions of the largest and the smallest price
+    for (std::size_t j = 0; j < s.rows.size(); ++j) {
+        price[j] = in.price[s.rows[j]];
+        if (price[j] > price[hi]) hi = j;
+        if (price[j] < price[lo]) lo = j;
+    }
+    if (price.empty()) return price;
+    const double top = price[hi], bottom = price[lo];
+    double scale = stats::rangeScale(top);
+    if (scale == 1.0 && !std::isnormal(bottom)) scale = stats::rangeScale(bottom);
+    if (scale == 1.0) return price;
+    if (!std::isnormal(bottom * scale) || !std::isfinite(top * scale))
+        throw InputError(fmt::format(
+            "prices span too far to compare: row {} holds {} and row {} holds {} (a ratio "
+            "beyond the range of numbers, about 1e308)",
+            s.rows[lo] + 1, bottom, s.rows[hi] + 1, top));
+    for (double& p : price) p *= scale;
+    return price;
 }
 
 }  // namespace lintel

@@ -55,4 +55,11 @@ ScreenedSales screenRows(const SalesInput& in, Frequency freq, Diagnostics& diag
 ScreenedSales screenSales(const SalesInput& in, Frequency freq, Diagnostics& diag,
                           const RowProblems* extra = nullptr);
 
+// The prices of the used rows (aligned with s.rows) times one power of two that brings the
+// largest near 1 when it lies beyond 2^500 or the smallest below 2^-500 (stats::rangeScale);
+// the prices themselves otherwise. Scaling is exact, ratios of prices do not change. Throws
+// InputError naming two rows when the prices span more than a double can hold together
+// (the smallest would vanish next to the largest: about 600 orders of magnitude).
+std::vector<double> scaledPrices(const SalesInput& in, const ScreenedSales& s);
+
 }  // namespace lintel

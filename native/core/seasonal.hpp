@@ -8,9 +8,11 @@
 //      counting from the first row), skipping positions' missing ratios;
 //   3. the p averages divided by their mean, so the factors average exactly 1;
 //   4. seasonally adjusted index: x_t / S_t.
-// Missing values: a row without a value (or with a value <= 0) has no ratio and no adjusted
-// value, and the moving averages whose window touches it have no value; its factor is still
-// given. Needs at least 2 years of rows, and every position needs at least one ratio.
+// Missing values: a row without a value has no ratio and no adjusted value, and the moving
+// averages whose window touches it have no value; its factor is still given. A value of 0 or
+// less is refused by name (InputError "row n holds -5"): a multiplicative factor needs
+// positive values. Needs at least 2 years of rows, and every position needs at least one
+// ratio. Values near the largest double are averaged scaled by a power of two (exact).
 #pragma once
 
 #include <vector>

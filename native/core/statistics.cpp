@@ -9,6 +9,27 @@
 
 namespace lintel::stats {
 
+double mulDiv(double x, double num, double den) {
+    if (!std::isfinite(x) || !std::isfinite(num) || !std::isfinite(den) || x == 0 || num == 0 ||
+        den == 0)
+        return x * num / den;
+    int ex = 0, en = 0, ed = 0;
+    const double mx = std::frexp(x, &ex), mn = std::frexp(num, &en), md = std::frexp(den, &ed);
+    return std::ldexp(mx * mn / md, ex + en - ed);
+}
+
+double logRatio(double b, double a) {
+    const double q = b / a;
+    if (std::isnormal(q)) return std::log(q);
+    return std::log(b) - std::log(a);
+}
+
+double rangeScale(double largestAbs) {
+    if (!std::isfinite(largestAbs) || !(largestAbs > 0)) return 1.0;
+    if (largestAbs < 0x1p500 && largestAbs > 0x1p-500) return 1.0;
+    return std::ldexp(1.0, std::min(-std::ilogb(largestAbs), 1023));  // 2^1024 is inf
+}
+
 double median(std::vector<double> v) {
     if (v.empty()) return kNoValue;
     const std::size_t n = v.size(), h = n / 2;
@@ -17,7 +38,9 @@ double median(std::vector<double> v) {
     const double hi = *mid;
     if (n % 2) return hi;
     const double lo = *std::max_element(v.begin(), mid);
-    return 0.5 * (lo + hi);
+    const double sum = lo + hi;
+    if (std::isfinite(sum)) return 0.5 * sum;
+    return 0.5 * lo + 0.5 * hi;  // two values near the largest double: no overflow
 }
 
 namespace {
@@ -32,9 +55,16 @@ double trimmedMean(std::vector<double> v, double trim) {
     std::sort(v.begin(), v.end());
     const std::size_t g = trimCount(trim, v.size());
     if (2 * g >= v.size()) return kNoValue;
+    const double nKept = static_cast<double>(v.size() - 2 * g);
     double s = 0;
     for (std::size_t i = g; i < v.size() - g; ++i) s += v[i];
-    return s / static_cast<double>(v.size() - 2 * g);
+    if (std::isfinite(s)) return s / nKept;
+    // The sum of values near the largest double overflows; their mean does not: sum scaled.
+    const double scale = std::ldexp(1.0, -std::ilogb(std::max(std::fabs(v[g]),
+                                                              std::fabs(v[v.size() - 1 - g]))));
+    s = 0;
+    for (std::size_t i = g; i < v.size() - g; ++i) s += v[i] * scale;
+    return s / nKept / scale;
 }
 
 double quantile(const std::vector<double>& sorted, double p) {

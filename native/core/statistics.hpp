@@ -19,6 +19,19 @@
 
 namespace lintel::stats {
 
+// x * num / den without overflow or underflow on the way (the three split into mantissa and
+// exponent): the same double as x * num / den whenever that is a normal number; +-inf only
+// when the result itself is beyond the largest double, 0 or subnormal only when it is that
+// small.
+double mulDiv(double x, double num, double den);
+// ln(b / a) for positive a and b, by the logs of each when b / a itself is beyond the range
+// of a double (b = 1e308, a = 1e-308: 1418.3); ln(b / a) itself otherwise.
+double logRatio(double b, double a);
+// The power of two 2^-k that brings the largest |value| of a set near 1 when it lies beyond
+// 2^500 or below 2^-500 (squares and sums of such values overflow or underflow); 1 otherwise.
+// Scaling by a power of two is exact, and ratios do not change.
+double rangeScale(double largestAbs);
+
 // Median; an even count gives the mean of the two middle values; kNoValue when empty.
 double median(std::vector<double> values);
 // Mean after cutting floor(trim * n) values from each end (scipy.stats.trim_mean's rule);

@@ -49,11 +49,21 @@ def pandas_seasonal(x, p):
 
 x = series(96, 12)
 x[[5, 6, 40, 77]] = np.nan
-x[60] = -1.0  # non-positive: no value
 got = run_refcli(args.refcli, "seasonal", pd.DataFrame({"index": x}), freq="M")
 factor, trend, adjusted = pandas_seasonal(x, 12)
 checks.close("monthly with gaps: factors", got.factor, factor, rel=1e-12, source="pandas rolling + groupby mean")
 checks.close("monthly with gaps: moving average", got.trend, trend, rel=1e-12, source="pandas rolling")
 checks.close("monthly with gaps: adjusted", got.adjusted, adjusted, rel=1e-12, source="pandas")
+
+# A value of 0 or less is refused, naming its row (issue 10; it used to be a silent gap).
+bad = x.copy()
+bad[60] = -1.0
+try:
+    run_refcli(args.refcli, "seasonal", pd.DataFrame({"index": bad}), freq="M")
+    refused = ""
+except RuntimeError as e:
+    refused = str(e)
+checks.true("monthly with -1 in row 61: refused by row",
+            "seasonal factors need index values above 0: row 61 holds -1" in refused, refused)
 
 checks.finish()
