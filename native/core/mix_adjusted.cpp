@@ -19,7 +19,7 @@ namespace lintel {
 namespace {
 
 // Stratum-period cells held at most (memory guard against e.g. an id column as strata).
-constexpr std::size_t kMaxCells = 2000000;
+constexpr auto kMaxCells = static_cast<std::size_t>(limits::kMaxMixCells);
 
 // Per stratum-period cells, flattened h * T + t.
 struct Cells {

@@ -8,13 +8,11 @@
 // (year 2995 for 2025 makes a monthly index of some 11,600 periods), an id column given as
 // strata or as a categorical characteristic, or many replicates on a large sheet.
 //
-// Other limits kept where they belong: hedonic levels and terms (hedonic_design.cpp: 1,000
-// levels of one categorical column, 1,500 terms), repeat-sales periods (kMaxPeriods,
-// repeat_sales_internal.hpp: 3,000), the backtest's work (kMaxBacktestWork, backtest.hpp),
-// the mix's stratum-period cells (2,000,000, mix_adjusted.cpp) and the cost of a result to
-// Calc (native/addin/result_cost.hpp).
+// Two limits stay where they are, named below: the backtest's work (backtest.hpp) and the
+// cost of a result to Calc (native/addin/result_cost.hpp, in the add-in).
 #pragma once
 
+#include <cstddef>
 #include <string>
 
 #include "periods.hpp"
@@ -27,25 +25,49 @@ namespace lintel::limits {
 // 1.4e9. At the limit: about 3 s here.
 inline constexpr double kMaxMixBootstrapWork = 1.5e8;
 
-// INDEXHEDONIC, HEDONICCOEFS, REFHOMEVALUE: the fit's cross-products, sum over the fits of
-// rows x terms^2 (terms = characteristic terms, levels of a categorical column counted one
-// each; a rolling window fits each sale once per window it lies in), plus periods x terms^2
-// for the period means and periods x terms^3 for the solves of the windows. 1,048,575 sales
-// x 12 terms is 1.5e8; 20,000 sales with a categorical column of 1,000 levels is 2e10. At
-// the limit: about 4 s here.
-inline constexpr double kMaxHedonicWork = 1.0e10;
+// INDEXHEDONIC, HEDONICCOEFS, REFHOMEVALUE (also the effects behind smooth, realtime and
+// borrow): the fits' cost in steps, fits x terms^3 (the solves) + rows fitted x terms^2 (the
+// cross-products; x 4 with se=hc1), where terms are the characteristic terms (each level of a
+// categorical column but its reference one term), a pooled fit is one fit of every sale, a
+// rolling window of k periods makes periods - k + 1 fits and fits each sale k times, and
+// realtime repeats it all for each of the periods (vintages). Measured here
+// (tests/bench/bench_work_limits.cpp): 20,000 sales with a column of 1,000 levels, pooled,
+// 2.1e10 steps, 6.8 s; the same with window=12, 2.9e11, 78 s; 1,000,000 sales with 30 levels,
+// window=12, 1.2e10, 3.4 s: about 0.3 ns a step. At the limit: about 4 s here.
+inline constexpr double kMaxHedonicWork = 1.5e10;
+// Levels of one categorical column and characteristic terms in all (the k x k system; an id
+// or address column would otherwise make one term per sale). Moved here from
+// hedonic_design.cpp; the work limit above bounds the time.
+inline constexpr std::size_t kMaxHedonicLevels = 1000;
+inline constexpr std::size_t kMaxHedonicTerms = 1500;
 
-// Smoothing with realtime=1 (INDEXHEDONIC, CHAINRS): one smoother per vintage, each over the
-// periods up to it: periods^2 / 2 smoother steps (and the estimator's effects per vintage).
-// 120 months: 7,200; 11,631 months: 6.8e7. At the limit: about 3 s here.
-inline constexpr double kMaxRealtimeSmoothingWork = 2.0e6;
+// INDEXMIX: stratum-period cells held (strata x periods), a memory guard against an id
+// column as strata (moved here from mix_adjusted.cpp). The mix without bands at the limit
+// takes well under a second.
+inline constexpr double kMaxMixCells = 2.0e6;
 
-// Smoothing without realtime: one model over all periods, its likelihood maximised over a
-// few parameters: periods. At the limit: about 2 s here.
-inline constexpr double kMaxSmoothedPeriods = 3000;
+// Smoothing with realtime=1 (INDEXHEDONIC, CHAINRS): rows x periods (rows counted twice with
+// borrow). Each vintage re-runs the estimator, about a microsecond per row and vintage
+// (11,500 rows borrowing over 132 months, 3 million, took 3.4 s on a busy two-core machine).
+// Moved here from smoothed_index.cpp. At the limit: a few seconds.
+inline constexpr double kMaxRealtimeRowVintages = 6.0e6;
 
-// Throws InputError: "too much work: <what> = <work> <unit>; at most <limit> (about <seconds>
-// here): <advice>", the figures with thousands separators. `what` names the sizes that were
+// CHAINRS, RSPAIRS (and the repeat methods of INDEXBACKTEST): periods on the axis (250 years
+// of months): the normal equations and the covariance are dense periods x periods. Moved here
+// from repeat_sales_internal.hpp. At the limit (1,000 sales, one dated 2271-10: 2,990
+// months): 1.3 s here.
+inline constexpr int kMaxRepeatSalesPeriods = 3000;
+
+// INDEXBACKTEST: its estimated work in nanoseconds (backtestWork, backtest.cpp: every method's
+// estimates, folds + revisions + 1 each, and the rank's bootstrap); folds at most 100. Six
+// methods with 10 folds and 12 revisions pass up to about 80,000 sales. Defined in
+// backtest.hpp (kMaxBacktestWork, kMaxFolds). At the limit: 6 s on a shared two-core machine.
+
+// The result handed to Calc: its cost to store (native/addin/result_cost.hpp, kMaxStoreCost:
+// about two seconds here), past which it is replaced by a message.
+
+// Throws InputError: "too much work: <what> = <work> <unit>; at most <limit> (a few seconds):
+// <advice>", the figures with thousands separators. `what` names the sizes that were
 // multiplied ("the dates span 2023-01 .. 2995-03 (11,631 months) x 12 strata x 10,000
 // replicates"); `advice` says what to do ("check for a mistyped date (SALESCHECK lists
 // implausible dates) or use fewer replicates").

@@ -75,13 +75,14 @@ def recalc_times(doc, runs):
     return times
 
 
-def timed_array(doc, sheet, ref, formula, runs):
-    """Sets an array formula, recalculates once, returns (median of runs, cells)."""
+def timed_array(doc, sheet, ref, formula, runs, read=None):
+    """Sets an array formula, recalculates once, returns (median of runs, cells of `read`,
+    default the whole array)."""
     rng = sheet.getCellRangeByName(ref)
     rng.setArrayFormula(formula)
     doc.calculateAll()
     times = recalc_times(doc, runs)
-    cells = sheet_values(sheet, ref)
+    cells = sheet_values(sheet, read or ref)
     rng.setArrayFormula("")
     return statistics.median(times), cells
 
@@ -324,7 +325,7 @@ FULL_CASES = [
     ("INDEXSEASONAL", "1M-value series", f"=INDEXSEASONAL({S}B:B)", "A1:A100"),
     ("INDEXTURNS", "dates, 1M values", f"=INDEXTURNS({S}A:A;{S}B:B)", "A1:D100"),
     ("INDEXLEADLAG", "two 1M-value series", f"=INDEXLEADLAG({S}B:B;{S}D:D)", "A1:C30"),
-    ("INDEXCOMPARE", "two 1M-value series", f"=INDEXCOMPARE({S}B:B;{S}D:D)", "A1:G5"),
+    ("INDEXCOMPARE", "three 1M-value series", f"=INDEXCOMPARE({S}B:D)", "A1:G5"),
     ("INDEXCHANGE", "1M-value series", f"=INDEXCHANGE({S}B:B;12)", "A1:A1048576"),
     ("INDEXREBASE", "dates, 1M values", f"=INDEXREBASE({S}A:A;{S}B:B;DATE(2021;1;1))", "A1:A1048576"),
     ("PRICEADJUST", "1M prices, 1M-row table", f"=PRICEADJUST({S}B:B;{S}A:A;DATE(2029;12;31);{S}A:A;{S}B:B)",
@@ -364,7 +365,7 @@ def bench_full(office, a):
     for name, case, formula, ref in FULL_CASES:
         if wanted and name not in wanted:
             continue
-        med, cells = timed_array(doc, out, ref, formula, a.full_runs)
+        med, cells = timed_array(doc, out, ref, formula, a.full_runs, read="A1:A1")
         if med > worst[0]:
             worst = (med, f"{name} ({case})")
         first_cell = cell_text(cells[0][0])

@@ -7,6 +7,7 @@
 #include <cmath>
 #include <cstdio>
 #include <functional>
+#include <utility>
 #include <string>
 
 #include "bench.hpp"
@@ -102,3 +103,49 @@ const bench::Register repeatSpan("limits.repeat_span", [] {
 });
 
 }  // namespace
+
+// A categorical column of `levels` levels ("d<i mod levels>") beside size, n sales over 60
+// months: the fit's cross-products cost n x terms^2.
+lintel::HedonicInput levelsMarket(std::size_t n, std::size_t levels) {
+    lintel::HedonicInput h = market(n, false).hedonic;
+    lintel::CharacteristicColumn d{"district", {}, {}};
+    for (std::size_t i = 0; i < n; ++i) d.text.push_back("d" + std::to_string((i * 7919) % levels));
+    h.characteristics.push_back(d);
+    return h;
+}
+
+const bench::Register hedonicLevels("limits.hedonic_levels", [] {
+    for (auto [n, levels] : {std::pair<std::size_t, std::size_t>{20000, 1000}, {100000, 300},
+                             {1000000, 30}, {5000, 1000}}) {
+        const lintel::HedonicInput h = levelsMarket(n, levels);
+        lintel::HedonicOptions o;
+        o.logColumns = {1};
+        timeOne("INDEXHEDONIC " + std::to_string(n) + " sales, " + std::to_string(levels) + " levels",
+                [&] { lintel::hedonicIndex(h, o); });
+        o.se = lintel::HedonicStdErr::HC1;
+        timeOne("  the same, se=hc1", [&] { lintel::hedonicIndex(h, o); });
+        o.se = lintel::HedonicStdErr::Classical;
+        o.window = 12;
+        timeOne("  the same, window=12", [&] { lintel::hedonicIndex(h, o); });
+    }
+});
+
+// Repeat sales near kMaxPeriods (3,000): the last sale's date typed as 2271-10 (2,990 months).
+const bench::Register repeatLong("limits.repeat_long", [] {
+    Market m = market(1000, false);
+    m.repeat.sales.date.back() = lintel::serialFromCivil({2271, 10, 1});
+    for (auto method : {lintel::RepeatSalesMethod::CaseShiller, lintel::RepeatSalesMethod::BaileyMuthNourse}) {
+        lintel::RepeatSalesOptions o;
+        o.method = method;
+        o.maxRate = 0;
+        timeOne(std::string("CHAINRS 2,990 months, method ") + lintel::repeatSalesMethodCode(method),
+                [&] { lintel::repeatSalesIndex(m.repeat, o); });
+    }
+    lintel::RepeatSalesOptions o;
+    o.maxRate = 0;
+    o.chain = true;
+    timeOne("CHAINRS 2,990 months, chain=1", [&] { lintel::repeatSalesIndex(m.repeat, o); });
+    o.chain = false;
+    o.smooth = lintel::SmoothKind::Trend;
+    timeOne("CHAINRS 2,990 months, smooth=trend", [&] { lintel::repeatSalesIndex(m.repeat, o); });
+});

@@ -10,6 +10,7 @@
 #include <vector>
 
 #include "diagnostics.hpp"
+#include "hedonic.hpp"
 #include "mix_adjusted.hpp"
 #include "periods.hpp"
 #include "work_limits.hpp"
@@ -137,6 +138,66 @@ BOOST_AUTO_TEST_CASE(mix_chain_skips_years_without_a_price) {
     BOOST_TEST(std::fabs(r.table.index[86] - 253) < 1e-9);
     BOOST_TEST(r.links == 3u);
     BOOST_TEST(r.fallbackWeights == 1u);
+}
+
+// n sales over 60 months from 2023-01, size 40 + (i * 37) mod 200, and a categorical
+// "district" of `levels` levels ("d<(i * 7919) mod levels>"); ln price = 12 + 0.004 t + 0.5 ln
+// size + 0.01 * level number.
+HedonicInput levelsMarket(int n, int levels) {
+    HedonicInput in;
+    CharacteristicColumn size{"size", {}, {}}, district{"district", {}, {}};
+    for (int i = 0; i < n; ++i) {
+        const int t = i * 60 / n, d = static_cast<int>((static_cast<long long>(i) * 7919) % levels);
+        const double s = 40.0 + (i * 37) % 200;
+        in.sales.date.push_back(serialFromCivil({2023 + t / 12, t % 12 + 1, 1 + i % 28}));
+        in.sales.price.push_back(std::exp(12 + 0.004 * t + 0.5 * std::log(s) + 0.01 * d));
+        size.numeric.push_back(s);
+        district.text.push_back("d" + std::to_string(d));
+    }
+    in.characteristics = {size, district};
+    return in;
+}
+
+BOOST_AUTO_TEST_CASE(hedonic_fit_refused_just_over_the_limit) {
+    // 1,000 levels: 999 district terms + size = 1,000 terms. 14,000 sales: 14,000 x 1,000^2 +
+    // 1,000^3 = 1.5e10 steps: computed (the limit is inclusive); 14,002 sales: 1.5002e10:
+    // refused. Before the limit 20,000 such sales took 6.8 s, with window=12 78 s.
+    BOOST_TEST(limits::kMaxHedonicWork == 1.5e10);
+    HedonicOptions o;
+    o.logColumns = {1};
+    const std::string m = messageOf([&] { hedonicIndex(levelsMarket(14002, 1000), o); });
+    BOOST_TEST(m ==
+               "too much work: the hedonic fit: 14,002 sales x 1,000 terms^2 + 1,000 terms^3 = "
+               "15,002,000,000 steps; at most 15,000,000,000 (a few seconds): group rare levels "
+               "of a categorical column (its levels are terms), use fewer characteristics, an "
+               "include mask");
+    // The same limit for the coefficients (the design is shared).
+    BOOST_TEST(messageOf([&] { hedonicFit(levelsMarket(14002, 1000), o); }) == m);
+}
+
+BOOST_AUTO_TEST_CASE(hedonic_window_and_hc1_count_more_work) {
+    // 2,000 sales x 300 levels (300 terms): pooled 2,000 x 9e4 + 2.7e7 = 2.07e8: computed.
+    // window=12: 49 windows x 2.7e7 + 2,000 x 12 x 9e4 = 1.323e9 + 2.16e9 = 3.483e9: computed;
+    // window=12 with 5,000 levels is refused by the levels limit instead, so the window's
+    // limit is shown with 700 levels and 4,000 sales: 49 x 3.43e8 + 4,000 x 12 x 4.9e5 =
+    // 1.6807e10 + 2.352e10 = 4.0327e10: refused, naming the windows.
+    HedonicOptions o;
+    o.window = 12;
+    const IndexResult r = hedonicIndex(levelsMarket(2000, 300), o);
+    BOOST_TEST(hasValue(r.table.index[59]));
+    const std::string m = messageOf([&] { hedonicIndex(levelsMarket(4000, 700), o); });
+    BOOST_TEST(m.find("the hedonic fit: 4,000 sales x 12 windows each x 700 terms^2 + 49 windows "
+                      "x 700 terms^3 = 40,327,000,000 steps") != std::string::npos);
+    BOOST_TEST(m.find("a shorter window") != std::string::npos);
+    // se=hc1 counts the cross-products four times: 2,000 sales x 700 levels pooled is
+    // 4 x 2,000 x 4.9e5 + 3.43e8 = 4.263e9 with hc1: computed; 7,500 sales: 4 x 3.675e9 +
+    // 3.43e8 = 1.5043e10 with hc1: refused (classical: 3.7093e9, computed).
+    o.window = 0;
+    o.se = HedonicStdErr::HC1;
+    BOOST_TEST(messageOf([&] { hedonicIndex(levelsMarket(2000, 700), o); }).empty());
+    const std::string h = messageOf([&] { hedonicIndex(levelsMarket(7500, 700), o); });
+    BOOST_TEST(h.find("x 4 for se=hc1) = 15,043,000,000 steps") != std::string::npos);
+    BOOST_TEST(h.find("se=classical") != std::string::npos);
 }
 
 BOOST_AUTO_TEST_SUITE_END()
