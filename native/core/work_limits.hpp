@@ -20,10 +20,13 @@
 namespace lintel::limits {
 
 // INDEXMIX bands=bootstrap: replicates x (sales + strata x periods) — each replicate redraws
-// every sale and recomputes every stratum-period cell. 1,000 sales over 11,631 months x 12
+// every sale and recomputes every stratum-period cell. 1,000 sales over 11,666 months x 12
 // strata x 200 replicates (a mistyped date, default reps) is 2.8e7; the same at 10,000 reps
-// 1.4e9. At the limit: about 3 s here.
-inline constexpr double kMaxMixBootstrapWork = 1.5e8;
+// 1.4e9 (122 s in Calc before this limit). A redrawn sale costs 25 ns (quiet machine:
+// 212,000 sales x 200 replicates, 4.3e7, 1.0 s) to 80 ns (busy: 1,048,575 sales x 100
+// replicates, 1e8, 8 s beside the 3.6 s Calc takes to hand over the columns); an empty
+// stratum-period about 2 ns. At the limit: 1.2 to 4 s here.
+inline constexpr double kMaxMixBootstrapWork = 5.0e7;
 
 // INDEXHEDONIC, HEDONICCOEFS, REFHOMEVALUE (also the effects behind smooth, realtime and
 // borrow): the fits' cost in steps, fits x terms^3 (the solves) + rows fitted x terms^2 (the

@@ -80,21 +80,23 @@ class WorkLimitsTest(SheetCalls, unittest.TestCase):
 
     def test_mix_bootstrap_past_the_limit_answers_the_message(self):
         # 10,000 replicates x (1,000 sales + 12 strata x 11,666 periods) = 1,409,920,000 >
-        # 150,000,000 (kMaxMixBootstrapWork): the case of the issue (122 s before).
+        # 50,000,000 (kMaxMixBootstrapWork): the case of the issue (122 s before).
         cells = self.mix(10000)
         self.assertEqual(
             cells[0][0],
             "Lintel: too much work: bands=bootstrap: 10,000 replicates x (1,000 sales + 12 strata x "
             "11,666 periods; the dates span 2023-01 .. 2995-02 (11,666 months)) = 1,409,920,000 "
-            "sales and stratum-periods redrawn; at most 150,000,000 (a few seconds): check for a "
+            "sales and stratum-periods redrawn; at most 50,000,000 (a few seconds): check for a "
             "mistyped date (SALESCHECK lists implausible dates), or use fewer replicates (reps), "
             "fewer strata or an include mask")
-        # Just over: 1,064 x 140,992 = 150,015,488.
-        self.assertTrue(str(self.mix(1064)[0][0]).startswith("Lintel: too much work: bands=bootstrap: 1,064"))
+        # Just over: 355 x 140,992 = 50,052,160.
+        self.assertTrue(str(self.mix(355)[0][0]).startswith(
+            "Lintel: too much work: bands=bootstrap: 355 replicates x (1,000 sales + 12 strata x "
+            "11,666 periods; the dates span 2023-01 .. 2995-02 (11,666 months)) = 50,052,160 "))
 
     def test_mix_bootstrap_just_under_the_limit_computes(self):
-        # 1,063 x 140,992 = 149,874,496 <= 150,000,000: the index with its bands.
-        cells = self.mix(1063)
+        # 354 x 140,992 = 49,911,168 <= 50,000,000: the index with its bands.
+        cells = self.mix(354)
         self.assertEqual(cells[0][0], serial_of(2023, 1, 1))
         self.assertEqual(cells[0][1], 100.0)  # base period, chain scaled to 100
         self.assertEqual(cells[0][2], 17.0)   # 2023-01: sales i = 0 .. 16

@@ -66,20 +66,20 @@ BOOST_AUTO_TEST_CASE(grouped_figures_and_the_message) {
 }
 
 BOOST_AUTO_TEST_CASE(mix_bootstrap_refused_just_over_the_limit) {
-    // 1,100 replicates x (1,000 sales + 12 strata x 11,667 periods = 141,004) = 155,104,400
-    // > 150,000,000 (kMaxMixBootstrapWork). Before the limit this ran for minutes in Calc
-    // (issue 10: reps=10000, 122 s).
+    // 355 replicates x (1,000 sales + 12 strata x 11,667 periods = 141,004) = 50,056,420
+    // > 50,000,000 (kMaxMixBootstrapWork). Before the limit the issue's case (reps=10000)
+    // ran 122 s in Calc.
     MixOptions o;
     o.chain = true;
     o.bootstrap = true;
-    o.reps = 1100;
+    o.reps = 355;
     const MixInput in = mistypedMarket();
-    BOOST_TEST(limits::kMaxMixBootstrapWork == 1.5e8);
+    BOOST_TEST(limits::kMaxMixBootstrapWork == 5e7);
     const std::string m = messageOf([&] { indexMix(in, o); });
     BOOST_TEST(m ==
-               "too much work: bands=bootstrap: 1,100 replicates x (1,000 sales + 12 strata x "
-               "11,667 periods; the dates span 2023-01 .. 2995-03 (11,667 months)) = 155,104,400 "
-               "sales and stratum-periods redrawn; at most 150,000,000 (a few seconds): check for "
+               "too much work: bands=bootstrap: 355 replicates x (1,000 sales + 12 strata x "
+               "11,667 periods; the dates span 2023-01 .. 2995-03 (11,667 months)) = 50,056,420 "
+               "sales and stratum-periods redrawn; at most 50,000,000 (a few seconds): check for "
                "a mistyped date (SALESCHECK lists implausible dates), or use fewer replicates "
                "(reps), fewer strata or an include mask");
     o.reps = 10000;  // the case of the issue
@@ -87,11 +87,11 @@ BOOST_AUTO_TEST_CASE(mix_bootstrap_refused_just_over_the_limit) {
 }
 
 BOOST_AUTO_TEST_CASE(mix_bootstrap_computed_just_under_the_limit) {
-    // 1,000 replicates x 141,004 = 141,004,000 <= 150,000,000: computed (about 0.3 s here).
+    // 354 replicates x 141,004 = 49,915,416 <= 50,000,000: computed (about 0.1 s here).
     MixOptions o;
     o.chain = true;
     o.bootstrap = true;
-    o.reps = 1000;
+    o.reps = 354;
     const MixResult r = indexMix(mistypedMarket(), o);
     BOOST_REQUIRE(r.table.index.size() == 11667u);
     // 2995-03 holds one sale of stratum s3 (i = 999: 999 mod 12 = 3, 999 mod 7 = 5), so its
