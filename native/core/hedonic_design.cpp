@@ -117,7 +117,8 @@ void checkWork(const Design& D, const HedonicOptions& o) {
         "characteristics, an include mask" +
             std::string(rolling ? ", a shorter window" : "") +
             (hc1 > 1 ? ", se=classical" : "") + (vintages > 1 ? ", realtime=0" : "") +
-            (T > 1200 ? std::string(", or ") + limits::kMistypedDateAdvice : std::string()));
+            (limits::longSpan(D.axis) ? std::string(", or ") + limits::kMistypedDateAdvice
+                                      : std::string()));
 }
 
 // The log and categorical columns against the characteristics given.

@@ -8,6 +8,7 @@
 #include <fmt/format.h>
 
 #include "index_table.hpp"
+#include "work_limits.hpp"
 
 namespace lintel {
 
@@ -49,6 +50,10 @@ HpResult hodrickPrescott(const std::vector<double>& y, const HpOptions& o) {
     r.cycle.assign(y.size(), kNoValue);
 
     const int m = r.last - r.first + 1;  // span length
+    limits::checkWork(static_cast<double>(m), limits::kMaxTrendRows,
+                      "the trend (Hodrick-Prescott): rows from the index's first to its last value", "rows",
+                      "an index has one row per period (give the index column of an index "
+                      "table, not a column of sales)");
     std::vector<Eigen::Triplet<double>> entries;
     entries.reserve(static_cast<std::size_t>(m) * 9);
     Eigen::VectorXd rhs = Eigen::VectorXd::Zero(m);

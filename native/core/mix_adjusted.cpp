@@ -357,8 +357,10 @@ MixResult indexMix(const MixInput& in, const MixOptions& o) {
                         limits::grouped(o.reps), limits::grouped(double(s.rows.size())),
                         limits::grouped(c.H), limits::grouped(c.T), limits::spanText(s.axis)),
             "sales and stratum-periods redrawn",
-            std::string(limits::kMistypedDateAdvice) +
-                ", or use fewer replicates (reps), fewer strata or an include mask");
+            limits::longSpan(s.axis)
+                ? std::string(limits::kMistypedDateAdvice) +
+                      ", or use fewer replicates (reps), fewer strata or an include mask"
+                : std::string("use fewer replicates (reps), fewer strata or an include mask"));
     c.count.assign(HT, 0);
     c.value.assign(HT, 0.0);
     c.price.assign(HT, kNoValue);

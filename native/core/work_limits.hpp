@@ -61,6 +61,12 @@ inline constexpr double kMaxRealtimeRowVintages = 6.0e6;
 // months): 1.3 s here.
 inline constexpr int kMaxRepeatSalesPeriods = 3000;
 
+// INDEXTREND, INDEXSNR, INDEXCOMPARE (the Hodrick-Prescott trend): rows from the index's first
+// to its last value. An index has one row per period (100,000 rows are 8,000 years of
+// months); a column of a million sales given as an index took 7 s (INDEXTREND) to 13 s
+// (INDEXCOMPARE, three columns) in Calc. At the limit: well under a second of the filter.
+inline constexpr double kMaxTrendRows = 1.0e5;
+
 // INDEXBACKTEST: its estimated work in nanoseconds (backtestWork, backtest.cpp: every method's
 // estimates, folds + revisions + 1 each, and the rank's bootstrap); folds at most 100. Six
 // methods with 10 folds and 12 revisions pass up to about 80,000 sales. Defined in
@@ -88,6 +94,9 @@ std::string grouped(double x);
 
 // "the dates span 2023-01 .. 2995-03 (11,631 months)".
 std::string spanText(const PeriodAxis& axis);
+
+// A span of more than a century: likely a mistyped date.
+inline bool longSpan(const PeriodAxis& axis) { return axis.count > 100 * periodsPerYear(axis.freq); }
 
 // The advice about a long span of periods, shared by the estimators: "check for a mistyped
 // date (SALESCHECK lists implausible dates)".

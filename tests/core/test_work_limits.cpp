@@ -11,6 +11,8 @@
 
 #include "diagnostics.hpp"
 #include "hedonic.hpp"
+#include "hodrick_prescott.hpp"
+#include "index_analytics.hpp"
 #include "mix_adjusted.hpp"
 #include "periods.hpp"
 #include "work_limits.hpp"
@@ -84,6 +86,28 @@ BOOST_AUTO_TEST_CASE(mix_bootstrap_refused_just_over_the_limit) {
                "(reps), fewer strata or an include mask");
     o.reps = 10000;  // the case of the issue
     BOOST_TEST(messageOf([&] { indexMix(in, o); }).find("10,000 replicates") != std::string::npos);
+}
+
+BOOST_AUTO_TEST_CASE(mix_bootstrap_over_the_limit_on_a_normal_span) {
+    // 5,000 sales over 60 months (the market above, repeated five times, the 2995 date set
+    // back to 2027-12-28) x 10,000 replicates: 10,000 x (5,000 + 12 x 60) = 57,200,000 >
+    // 50,000,000. Five years of dates: no word of a mistyped date.
+    MixInput one = mistypedMarket();
+    one.sales.date.back() = serialFromCivil({2027, 12, 28});
+    MixInput in = one;
+    for (int k = 0; k < 4; ++k) {
+        in.sales.date.insert(in.sales.date.end(), one.sales.date.begin(), one.sales.date.end());
+        in.sales.price.insert(in.sales.price.end(), one.sales.price.begin(), one.sales.price.end());
+        in.strata[0].insert(in.strata[0].end(), one.strata[0].begin(), one.strata[0].end());
+    }
+    MixOptions o;
+    o.bootstrap = true;
+    o.reps = 10000;
+    BOOST_TEST(messageOf([&] { indexMix(in, o); }) ==
+               "too much work: bands=bootstrap: 10,000 replicates x (5,000 sales + 12 strata x 60 "
+               "periods; the dates span 2023-01 .. 2027-12 (60 months)) = 57,200,000 sales and "
+               "stratum-periods redrawn; at most 50,000,000 (a few seconds): use fewer replicates "
+               "(reps), fewer strata or an include mask");
 }
 
 BOOST_AUTO_TEST_CASE(mix_bootstrap_computed_just_under_the_limit) {
@@ -198,6 +222,24 @@ BOOST_AUTO_TEST_CASE(hedonic_window_and_hc1_count_more_work) {
     const std::string h = messageOf([&] { hedonicIndex(levelsMarket(7500, 700), o); });
     BOOST_TEST(h.find("x 4 for se=hc1) = 15,043,000,000 steps") != std::string::npos);
     BOOST_TEST(h.find("se=classical") != std::string::npos);
+}
+
+BOOST_AUTO_TEST_CASE(trend_refused_past_its_rows) {
+    // 100,001 rows from the first to the last value > 100,000 (kMaxTrendRows): refused, also
+    // through INDEXSNR; 100,000 rows (a blank row in between is counted): computed.
+    std::vector<double> y(100001);
+    for (std::size_t t = 0; t < y.size(); ++t) y[t] = 100 * std::exp(0.001 * static_cast<double>(t % 500));
+    y[50000] = kNoValue;
+    const std::string m = messageOf([&] { hodrickPrescott(y, HpOptions{}); });
+    BOOST_TEST(m == "too much work: the trend (Hodrick-Prescott): rows from the index's first to "
+                    "its last value = 100,001 rows; at most 100,000 (a few seconds): an index has "
+                    "one row per period (give the index column of an index table, not a column of "
+                    "sales)");
+    BOOST_TEST(messageOf([&] { indexSnr(y, SnrOptions{}); }) == m);
+    y.pop_back();
+    const HpResult r = hodrickPrescott(y, HpOptions{});
+    BOOST_TEST(r.trend.size() == 100000u);
+    BOOST_TEST(hasValue(r.trend[50000]));  // the gap gets the bridging trend
 }
 
 BOOST_AUTO_TEST_SUITE_END()
