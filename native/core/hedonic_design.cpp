@@ -10,6 +10,7 @@
 
 #include "hedonic_internal.hpp"
 #include "text_keys.hpp"
+#include "work_limits.hpp"
 
 namespace lintel {
 
@@ -84,10 +85,41 @@ void HedonicOptions::validate() const {
 namespace hedonic_detail {
 
 namespace {
-// Limits that keep the k x k system and its O(n k^2) cost within reason (a column of ids
-// or addresses would otherwise make one term per sale).
-constexpr std::size_t kMaxLevels = 1000;  // levels of one categorical column
-constexpr std::size_t kMaxTerms = 1500;   // characteristic terms in all
+// Limits that keep the k x k system within reason (a column of ids or addresses would
+// otherwise make one term per sale); the time is bounded by checkWork below.
+constexpr std::size_t kMaxLevels = limits::kMaxHedonicLevels;
+constexpr std::size_t kMaxTerms = limits::kMaxHedonicTerms;
+
+// The fits' cost (limits::kMaxHedonicWork says how it is counted), refused past the limit.
+void checkWork(const Design& D, const HedonicOptions& o) {
+    const double n = static_cast<double>(D.y.size()), K = static_cast<double>(D.terms.size());
+    const double T = static_cast<double>(D.T);
+    const bool rolling = o.window > 0 && o.window < D.T;
+    const double fits = rolling ? T - o.window + 1 : 1.0;
+    const double rowsFitted = rolling ? n * o.window : n;
+    const double hc1 = o.se == HedonicStdErr::HC1 ? 4.0 : 1.0;
+    const double vintages = o.smoothed() && o.realtime ? T : 1.0;
+    const double work = vintages * (fits * K * K * K + hc1 * rowsFitted * K * K);
+    if (work <= limits::kMaxHedonicWork) return;
+    std::string what = fmt::format("{} sales x {} terms^2", limits::grouped(n), limits::grouped(K));
+    if (rolling)
+        what = fmt::format("{} sales x {} windows each x {} terms^2 + {} windows x {} terms^3",
+                           limits::grouped(n), o.window, limits::grouped(K),
+                           limits::grouped(fits), limits::grouped(K));
+    else
+        what += fmt::format(" + {} terms^3", limits::grouped(K));
+    if (hc1 > 1) what = "(" + what + ", x 4 for se=hc1)";
+    if (vintages > 1)
+        what = fmt::format("realtime: {} vintages x ({})", limits::grouped(vintages), what);
+    limits::refuseWork(
+        "the hedonic fit: " + what, work, "steps", limits::kMaxHedonicWork,
+        "group rare levels of a categorical column (its levels are terms), use fewer "
+        "characteristics, an include mask" +
+            std::string(rolling ? ", a shorter window" : "") +
+            (hc1 > 1 ? ", se=classical" : "") + (vintages > 1 ? ", realtime=0" : "") +
+            (limits::longSpan(D.axis) ? std::string(", or ") + limits::kMistypedDateAdvice
+                                      : std::string()));
+}
 
 // The log and categorical columns against the characteristics given.
 void checkColumns(const HedonicOptions& o, std::size_t nCols) {
@@ -277,6 +309,7 @@ Design buildDesign(const HedonicInput& in, const HedonicOptions& o) {
     if (D.terms.size() > kMaxTerms)
         throw InputError(fmt::format("the characteristics make {} terms; at most {} are allowed",
                                      D.terms.size(), kMaxTerms));
+    checkWork(D, o);
     return D;
 }
 

@@ -9,6 +9,7 @@
 #include <fmt/format.h>
 
 #include "index_table.hpp"
+#include "work_limits.hpp"
 
 namespace lintel {
 
@@ -50,6 +51,10 @@ HpResult hodrickPrescott(const std::vector<double>& y, const HpOptions& o) {
     r.cycle.assign(y.size(), kNoValue);
 
     const int m = r.last - r.first + 1;  // span length
+    limits::checkWork(static_cast<double>(m), limits::kMaxTrendRows,
+                      "the trend (Hodrick-Prescott): rows from the index's first to its last value", "rows",
+                      "an index has one row per period (give the index column of an index "
+                      "table, not a column of sales)");
     // The system is solved for the deviations from the mean of the values, in units of a power
     // of two near the largest |value|: a constant series gives its constant exactly (the
     // deviations are 0), and values near the largest double neither overflow nor lose digits.

@@ -12,13 +12,14 @@
 
 #include "statistics.hpp"
 #include "text_keys.hpp"
+#include "work_limits.hpp"
 
 namespace lintel {
 
 namespace {
 
 // Stratum-period cells held at most (memory guard against e.g. an id column as strata).
-constexpr std::size_t kMaxCells = 2000000;
+constexpr auto kMaxCells = static_cast<std::size_t>(limits::kMaxMixCells);
 
 // Per stratum-period cells, flattened h * T + t.
 struct Cells {
@@ -43,7 +44,7 @@ public:
         for (int h = 0; h < c_.H; ++h) {
             double x = 0;
             if (o_.weights == MixWeights::All) {
-                for (int t = 0; t < c_.T; ++t) x += static_cast<double>(c_.count[c_.at(h, t)]);
+                x = allSales(h);
             } else {
                 for (int t = a; t <= b; ++t)
                     x += o_.weights == MixWeights::Value ? c_.value[c_.at(h, t)]
@@ -103,15 +104,39 @@ public:
     }
 
     std::vector<double>& level() { return level_; }
+    // The last position before `before` with a value, -1 when none (levels are written year
+    // by year, so the search starts from the last valued position found so far).
+    int lastValuedBefore(int before) {
+        for (int t = std::min(before, c_.T) - 1; t > scanned_; --t)
+            if (hasValue(level_[t])) {
+                lastValued_ = t;
+                break;
+            }
+        scanned_ = std::max(scanned_, std::min(before, c_.T) - 1);
+        return lastValued_ < before ? lastValued_ : -1;
+    }
     std::vector<std::size_t>& used() { return used_; }
     std::size_t weightedStrata() const {
         return static_cast<std::size_t>(std::count(weighted_.begin(), weighted_.end(), 1));
     }
 
 private:
+    // Sales of stratum h over the whole sample (weights=all), summed once.
+    double allSales(int h) {
+        if (all_.empty()) {
+            all_.assign(static_cast<std::size_t>(c_.H), 0.0);
+            for (int k = 0; k < c_.H; ++k)
+                for (int t = 0; t < c_.T; ++t)
+                    all_[k] += static_cast<double>(c_.count[c_.at(k, t)]);
+        }
+        return all_[h];
+    }
+
     const Cells& c_;
     const MixOptions& o_;
     MixResult& r_;
+    std::vector<double> all_;
+    int scanned_ = -1, lastValued_ = -1;
     std::vector<double> level_;
     std::vector<std::size_t> used_;
     std::vector<char> weighted_;
@@ -139,9 +164,12 @@ void buildLevels(MixBuilder& b, const Cells& c, const PeriodAxis& axis,
                b.weights(first, yearStart(y0), yearStart(y0 + 1) - 1), 1.0);
         for (long y = y0 + 1; y <= yLast; ++y) {
             const int from = yearStart(y), to = std::min(yearStart(y + 1) - 1, c.T - 1);
-            int linkAt = -1;
-            for (int t = from - 1; t >= 0 && linkAt < 0; --t)
-                if (hasValue(b.level()[t])) linkAt = t;
+            // A year in which no stratum has a price gets no value whatever its link: skipped
+            // (a long gap, such as one mistyped date, would otherwise cost gap^2 steps).
+            bool priced = false;
+            for (int t = from; t <= to && !priced; ++t) priced = hasValue(anyPrice[t]);
+            if (!priced) continue;
+            const int linkAt = b.lastValuedBefore(from);
             if (linkAt < 0) continue;
             std::vector<double> w = b.weights(linkAt, yearStart(y - 1), from - 1);
             if (std::accumulate(w.begin(), w.end(), 0.0) <= 0) {
@@ -325,6 +353,17 @@ MixResult indexMix(const MixInput& in, const MixOptions& o) {
             "strata: {} strata over {} periods are too many cells (more than {}); a stratum "
             "should hold many sales, so use coarser strata columns",
             c.H, c.T, kMaxCells));
+    if (o.bootstrap)
+        limits::checkWork(
+            double(o.reps) * (double(s.rows.size()) + double(HT)), limits::kMaxMixBootstrapWork,
+            fmt::format("bands=bootstrap: {} replicates x ({} sales + {} strata x {} periods; {})",
+                        limits::grouped(o.reps), limits::grouped(double(s.rows.size())),
+                        limits::grouped(c.H), limits::grouped(c.T), limits::spanText(s.axis)),
+            "sales and stratum-periods redrawn",
+            limits::longSpan(s.axis)
+                ? std::string(limits::kMistypedDateAdvice) +
+                      ", or use fewer replicates (reps), fewer strata or an include mask"
+                : std::string("use fewer replicates (reps), fewer strata or an include mask"));
     c.count.assign(HT, 0);
     c.value.assign(HT, 0.0);
     c.price.assign(HT, kNoValue);

@@ -15,6 +15,7 @@
 #include <Eigen/Dense>
 
 #include "repeat_sales.hpp"
+#include "work_limits.hpp"
 
 namespace lintel::rs_detail {
 
@@ -65,7 +66,7 @@ std::vector<SalePair> auditRows(const BuiltPairs& bp);
 
 // Largest number of periods on the axis (250 years of months): the normal equations and the
 // covariance are dense T x T.
-inline constexpr int kMaxPeriods = 3000;
+inline constexpr int kMaxPeriods = limits::kMaxRepeatSalesPeriods;
 
 // One pair as the estimator sees it: periods as axis positions s < t.
 struct Obs {

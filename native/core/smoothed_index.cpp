@@ -10,6 +10,8 @@
 #include <boost/math/distributions/normal.hpp>
 #include <fmt/format.h>
 
+#include "work_limits.hpp"
+
 namespace lintel {
 
 void IndexSmoothing::validateSmoothing(const IndexOptions& index) const {
@@ -30,11 +32,8 @@ using Eigen::Index;
 
 std::size_t at(int i) { return static_cast<std::size_t>(i); }
 
-// Real time over more rows x periods than this is refused (rows counted twice with borrow):
-// each vintage re-runs the estimator, about a microsecond per row and vintage (11,500 rows
-// borrowing over 132 months, 3 million, took 3.4 s on a busy two-core machine), so this
-// bounds a recalculation by a few seconds.
-constexpr double kMaxRowVintages = 6e6;
+// Real time over more rows x periods than this is refused (work_limits.hpp says why).
+constexpr double kMaxRowVintages = limits::kMaxRealtimeRowVintages;
 
 SmootherOptions smootherOptions(const IndexSmoothing& s, Frequency freq) {
     SmootherOptions o;

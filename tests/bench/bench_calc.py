@@ -17,8 +17,12 @@ blank     PERIODOF over a range of n rows of which the first 1,000 hold dates an
 backtest  INDEXBACKTEST over `--rows` sales of the hedonic data below with a property id, 10 folds x
           6 methods (median, mean, mix by district, hedonic log=1, repeat, repeat method=bmn),
           12 revision periods. Target (issue 14): a few seconds.
-full      The worst case: functions over whole columns of a full sheet (1,048,575 sales).
-          Target: a few seconds.
+full      The worst case (issue 10): the worst realistic formula of every function over whole
+          columns of a full sheet (1,048,575 sales, masks included); prints a table function |
+          case | seconds | first cell and the worst. Target: a few seconds each (a refusal
+          with Lintel's message counts).
+span      One date mistyped as year 2995 among 1,000 sales (issue 10): INDEXMIX bootstrap and
+          the other estimators; answers or refusals in a few seconds.
 
 Generated data (not the demo; numpy's default_rng, seeds below):
   hedonic (seed `--seed`): `--rows` sales spread evenly over `--months` months from 2019-01
@@ -37,7 +41,11 @@ Generated data (not the demo; numpy's default_rng, seeds below):
     A = 100 exp(0.004 t + 0.02 sin(2 pi t/12) + N(0, 0.005^2)), B the same shape 3 months
     later.
   full (seed 5): 1,048,575 sales over 120 months from 2020-01; id ~ U{0..299999} (numbers);
-    size ~ U(40, 240); ln price = 12 + 0.003 t + N(0, 0.2^2).
+    size ~ U(40, 240); district ~ U{"district A" .. "district G"}; ln price = 12 + 0.003 t +
+    N(0, 0.2^2).
+  span (seed 10): 1,000 sales, month i*60//1000 from 2023-01, day 1 + i mod 28, the last date
+    400000; stratum "s<i mod 12>", size ~ U(40, 240), id "P<i mod 400>"; ln price = 12 +
+    0.004 t + N(0, 0.2^2).
 """
 import argparse
 import os
@@ -67,13 +75,14 @@ def recalc_times(doc, runs):
     return times
 
 
-def timed_array(doc, sheet, ref, formula, runs):
-    """Sets an array formula, recalculates once, returns (median of runs, cells)."""
+def timed_array(doc, sheet, ref, formula, runs, read=None):
+    """Sets an array formula, recalculates once, returns (median of runs, cells of `read`,
+    default the whole array)."""
     rng = sheet.getCellRangeByName(ref)
     rng.setArrayFormula(formula)
     doc.calculateAll()
     times = recalc_times(doc, runs)
-    cells = sheet_values(sheet, ref)
+    cells = sheet_values(sheet, read or ref)
     rng.setArrayFormula("")
     return statistics.median(times), cells
 
@@ -276,12 +285,51 @@ def bench_blank(office, a):
 
 
 # --- full -------------------------------------------------------------------------------------
+# The worst realistic formula of each function over a full sheet (issue 10): whole columns of
+# 1,048,575 sales (A date, B price, C id, D size, E district; header in row 1), masks included.
+# name, case, formula, output range. A refusal with Lintel's message counts as an answer.
+S = "$Sales."
+INCL = f'ISSEGMENT({S}E:E;"district A")'
 FULL_CASES = [
-    ("INDEXMEDIAN", "=INDEXMEDIAN($Sales.A:A;$Sales.B:B)", "A1:E130"),
-    ("INDEXMEAN", "=INDEXMEAN($Sales.A:A;$Sales.B:B)", "A1:E130"),
-    ("INDEXHEDONIC", '=INDEXHEDONIC($Sales.A:A;$Sales.B:B;$Sales.D:D;;;;"log=1")', "A1:E130"),
-    ("CHAINRS", "=CHAINRS($Sales.C:C;$Sales.A:A;$Sales.B:B)", "A1:E130"),
-    ("PERIODOF (one cell)", "=PERIODOF($Sales.A:A)", "A1:A1"),
+    ("PERIODOF", "whole column into a whole column", f"=PERIODOF({S}A:A)", "A1:A1048576"),
+    ("PERIODOF", "one cell", f"=PERIODOF({S}A:A)", "A1:A1"),
+    ("INDEXMEDIAN", "whole columns", f"=INDEXMEDIAN({S}A:A;{S}B:B)", "A1:E130"),
+    ("INDEXMEDIAN", "ISSEGMENT mask", f"=INDEXMEDIAN({S}A:A;{S}B:B;{INCL})", "A1:E130"),
+    ("INDEXMEAN", "(E=...) mask, notes", f'=INDEXMEAN({S}A:A;{S}B:B;{S}E:E="district B";;;"notes=1")',
+     "A1:E140"),
+    ("INDEXMIX", "district strata", f"=INDEXMIX({S}A:A;{S}B:B;{S}E:E)", "A1:E130"),
+    ("INDEXMIX", "chain, bootstrap 200 reps", f'=INDEXMIX({S}A:A;{S}B:B;{S}E:E;;;;"chain=1;bands=bootstrap")',
+     "A1:E130"),
+    ("INDEXMIX", "bootstrap 100 reps", f'=INDEXMIX({S}A:A;{S}B:B;{S}E:E;;;;"bands=bootstrap;reps=100")',
+     "A1:E130"),
+    ("INDEXHEDONIC", "size, district; log", f'=INDEXHEDONIC({S}A:A;{S}B:B;{S}D:E;;;;"log=1")', "A1:E130"),
+    ("INDEXHEDONIC", "window=12, mask", f'=INDEXHEDONIC({S}A:A;{S}B:B;{S}D:E;{INCL};;;"log=1;window=12")',
+     "A1:E130"),
+    ("INDEXHEDONIC", "smooth=trend", f'=INDEXHEDONIC({S}A:A;{S}B:B;{S}D:E;;;;"log=1;smooth=trend")', "A1:E130"),
+    ("INDEXHEDONIC", "smooth=trend realtime=1", f'=INDEXHEDONIC({S}A:A;{S}B:B;{S}D:E;;;;"log=1;smooth=trend;realtime=1")',
+     "A1:E130"),
+    ("INDEXHEDONIC", "id as categorical", f'=INDEXHEDONIC({S}A:A;{S}B:B;{S}C:D;;;;"categorical=1")', "A1:E130"),
+    ("HEDONICCOEFS", "size, district; se=hc1", f'=HEDONICCOEFS({S}A:A;{S}B:B;{S}D:E;;;;"log=1;se=hc1")', "A1:D140"),
+    ("REFHOMEVALUE", "size, district", f'=REFHOMEVALUE({S}A:A;{S}B:B;{S}D:E;;;;;"log=1")', "A1:D130"),
+    ("CHAINRS", "whole columns", f"=CHAINRS({S}C:C;{S}A:A;{S}B:B)", "A1:E130"),
+    ("CHAINRS", "chain=1, bmn", f'=CHAINRS({S}C:C;{S}A:A;{S}B:B;;;;;"chain=1;method=bmn")', "A1:E130"),
+    ("CHAINRS", "smooth=trend, mask", f'=CHAINRS({S}C:C;{S}A:A;{S}B:B;;{INCL};;;"smooth=trend")', "A1:E130"),
+    ("RSPAIRS", "all pairs", f"=RSPAIRS({S}C:C;{S}A:A;{S}B:B)", "A1:J100"),
+    ("SALESCHECK", "list, ids, segments", f"=SALESCHECK({S}A:A;{S}B:B;{S}C:C;{S}E:E)", "A1:F100"),
+    ("SALESCHECK", "output=use", f'=SALESCHECK({S}A:A;{S}B:B;{S}C:C;{S}E:E;;;"output=use")', "A1:A1048576"),
+    ("ISSEGMENT", "whole column", f'=ISSEGMENT({S}E:E;"district A")', "A1:A1048576"),
+    ("INDEXBACKTEST", "default methods", f"=INDEXBACKTEST({S}C:C;{S}A:A;{S}B:B;{S}D:D;{S}E:E)", "A1:K6"),
+    ("INDEXTREND", "1M-value series", f"=INDEXTREND({S}B:B)", "A1:A1048576"),
+    ("INDEXVOLATILITY", "1M-value series", f"=INDEXVOLATILITY({S}B:B)", "A1:A1"),
+    ("INDEXSNR", "1M-value series", f"=INDEXSNR({S}B:B)", "A1:A1"),
+    ("INDEXSEASONAL", "1M-value series", f"=INDEXSEASONAL({S}B:B)", "A1:A100"),
+    ("INDEXTURNS", "dates, 1M values", f"=INDEXTURNS({S}A:A;{S}B:B)", "A1:D100"),
+    ("INDEXLEADLAG", "two 1M-value series", f"=INDEXLEADLAG({S}B:B;{S}D:D)", "A1:C30"),
+    ("INDEXCOMPARE", "three 1M-value series", f"=INDEXCOMPARE({S}B:D)", "A1:G5"),
+    ("INDEXCHANGE", "1M-value series", f"=INDEXCHANGE({S}B:B;12)", "A1:A1048576"),
+    ("INDEXREBASE", "dates, 1M values", f"=INDEXREBASE({S}A:A;{S}B:B;DATE(2021;1;1))", "A1:A1048576"),
+    ("PRICEADJUST", "1M prices, 1M-row table", f"=PRICEADJUST({S}B:B;{S}A:A;DATE(2029;12;31);{S}A:A;{S}B:B)",
+     "A1:A1048576"),
 ]
 
 
@@ -294,46 +342,95 @@ def bench_full(office, a):
     price = np.exp(12 + 0.003 * t + rng.normal(0, 0.2, n))
     ids = rng.integers(0, 300000, n).astype(float)
     size = rng.uniform(40, 240, n)
+    district = [f"district {chr(65 + k)}" for k in range(7)]
+    dk = rng.integers(0, 7, n)
     doc = office.new_calc()
     doc.Sheets.getByIndex(0).Name = "Sales"
     s = doc.Sheets.getByName("Sales")
     t0 = time.perf_counter()
+    s.getCellRangeByName("A1:E1").setDataArray((("date", "price", "id", "size", "district"),))
     step = 200000
     for lo in range(0, n, step):
         hi = min(n, lo + step)
-        s.getCellRangeByName(f"A{lo + 2}:D{hi + 1}").setDataArray(
-            tuple((float(serial[k]), float(price[k]), float(ids[k]), float(size[k])) for k in range(lo, hi)))
+        s.getCellRangeByName(f"A{lo + 2}:E{hi + 1}").setDataArray(
+            tuple((float(serial[k]), float(price[k]), float(ids[k]), float(size[k]), district[dk[k]])
+                  for k in range(lo, hi)))
     doc.Sheets.insertNewByName("Out", 1)
     out = doc.Sheets.getByName("Out")
-    print(f"Full sheet: {n} sales in A:D (filled in {time.perf_counter() - t0:.1f} s); median of "
+    wanted = set(a.functions.split(",")) if a.functions else None
+    print(f"Full sheet: {n} sales in A:E (filled in {time.perf_counter() - t0:.1f} s); median of "
           f"{a.full_runs} recalculations", flush=True)
-    worst = 0.0
-    for name, formula, ref in FULL_CASES:
-        med, cells = timed_array(doc, out, ref, formula, a.full_runs)
-        worst = max(worst, med)
-        print(f"  {name:20s} {med:8.3f} s   first cell {cell_text(cells[0][0])}", flush=True)
+    print(f"  {'function':16s} | {'case':34s} | {'seconds':>8s} | first cell", flush=True)
+    worst = (0.0, "")
+    for name, case, formula, ref in FULL_CASES:
+        if wanted and name not in wanted:
+            continue
+        med, cells = timed_array(doc, out, ref, formula, a.full_runs, read="A1:A1")
+        if med > worst[0]:
+            worst = (med, f"{name} ({case})")
+        first_cell = cell_text(cells[0][0])
+        print(f"  {name:16s} | {case:34s} | {med:8.3f} | {first_cell[:160]}", flush=True)
     doc.close(True)
-    print(f"  worst case over {SHEET_ROWS} rows: {worst:.3f} s", flush=True)
+    print(f"  worst case over {SHEET_ROWS} rows: {worst[0]:.3f} s, {worst[1]}", flush=True)
+
+
+# --- span -------------------------------------------------------------------------------------
+# One mistyped date (issue 10): 1,000 sales over 60 months from 2023-01, 12 strata, the last
+# date typed as 400000 (year 2995).
+SPAN_CASES = [
+    ("INDEXMIX", "chain, bootstrap 200 reps", '=INDEXMIX($Sales.A1:A1000;$Sales.B1:B1000;$Sales.C1:C1000;;;;"chain=1;bands=bootstrap")'),
+    ("INDEXMIX", "chain, bootstrap 1000 reps",
+     '=INDEXMIX($Sales.A1:A1000;$Sales.B1:B1000;$Sales.C1:C1000;;;;"chain=1;bands=bootstrap;reps=1000")'),
+    ("INDEXMIX", "chain, bootstrap 10000 reps",
+     '=INDEXMIX($Sales.A1:A1000;$Sales.B1:B1000;$Sales.C1:C1000;;;;"chain=1;bands=bootstrap;reps=10000")'),
+    ("INDEXHEDONIC", "smooth=trend", '=INDEXHEDONIC($Sales.A1:A1000;$Sales.B1:B1000;$Sales.D1:D1000;;;;"smooth=trend")'),
+    ("INDEXHEDONIC", "window=12", '=INDEXHEDONIC($Sales.A1:A1000;$Sales.B1:B1000;$Sales.D1:D1000;;;;"window=12")'),
+    ("CHAINRS", "default", "=CHAINRS($Sales.E1:E1000;$Sales.A1:A1000;$Sales.B1:B1000)"),
+    ("INDEXMEDIAN", "default", "=INDEXMEDIAN($Sales.A1:A1000;$Sales.B1:B1000)"),
+]
+
+
+def bench_span(office, a):
+    rng = np.random.default_rng(10)
+    i = np.arange(1000)
+    t = i * 60 // 1000
+    serial = [serial_of(2023 + k // 12, k % 12 + 1, 1) + float(j % 28) for j, k in zip(i, t)]
+    serial[-1] = 400000.0
+    price = np.exp(12 + 0.004 * t + rng.normal(0, 0.2, 1000))
+    size = rng.uniform(40, 240, 1000)
+    doc = office.new_calc()
+    doc.Sheets.getByIndex(0).Name = "Sales"
+    s = doc.Sheets.getByName("Sales")
+    s.getCellRangeByName("A1:E1000").setDataArray(tuple(
+        (serial[k], float(price[k]), f"s{k % 12}", float(size[k]), f"P{k % 400}") for k in range(1000)))
+    doc.Sheets.insertNewByName("Out", 1)
+    out = doc.Sheets.getByName("Out")
+    print("One date typed as 400000 (year 2995) among 1,000 sales of 2023-2027; median of "
+          f"{a.full_runs} recalculations", flush=True)
+    for name, case, formula in SPAN_CASES:
+        med, cells = timed_array(doc, out, "A1:E60", formula, a.full_runs)
+        print(f"  {name:16s} | {case:34s} | {med:8.3f} | {cell_text(cells[0][0])[:200]}", flush=True)
+    doc.close(True)
 
 
 def main():
     p = argparse.ArgumentParser(description=__doc__.split("\n")[0])
     p.add_argument("--oxt", required=True, help="path to lintel.oxt")
-    p.add_argument("--only", nargs="*", default=["hedonic", "backtest", "columns", "blank", "full"],
+    p.add_argument("--only", nargs="*", default=["hedonic", "backtest", "columns", "blank", "full", "span"],
                    help="sections to run (default: all)")
     p.add_argument("--runs", type=int, default=5)
     p.add_argument("--full-runs", type=int, default=3)
     p.add_argument("--rows", type=int, default=35000)
     p.add_argument("--months", type=int, default=60)
     p.add_argument("--seed", type=int, default=35000)
-    p.add_argument("--functions", default="", help="columns: only these functions (comma list)")
+    p.add_argument("--functions", default="", help="columns, full: only these functions (comma list)")
     p.add_argument("--blank-rows", default="65536,131072,262144,1048576",
                    help="blank: the array heights n (comma list)")
     a = p.parse_args()
     with Office(os.path.abspath(a.oxt)) as office:
         for section in a.only:
             {"hedonic": bench_hedonic, "backtest": bench_backtest, "columns": bench_columns, "blank": bench_blank,
-             "full": bench_full}[section](office, a)
+             "full": bench_full, "span": bench_span}[section](office, a)
         alive = office.alive()
     print(f"office alive: {alive}")
 
