@@ -71,15 +71,16 @@ std::optional<std::size_t> refusedError(const FunctionSpec& f, const std::vector
     if (includeAt >= 0 && static_cast<std::size_t>(includeAt) < values.size() &&
         values[static_cast<std::size_t>(includeAt)])
         include = &*values[static_cast<std::size_t>(includeAt)];
-    // Without include: the table ends at the last row holding a number in any Column argument.
+    // Without include: the table ends at the last row holding a value (number or text) in any
+    // Column argument.
     std::size_t tableEnd = 0;
     for (std::size_t a = 0; a < values.size() && a < f.args.size(); ++a) {
         if (f.args[a].kind != ArgKind::Column || !values[a]) continue;
         const Range& r = *values[a];
         for (std::size_t i = r.rows; i > tableEnd; --i) {
-            bool number = false;
-            for (std::size_t c = 0; c < r.cols && !number; ++c) number = r.at(i - 1, c).isNumber();
-            if (number) {
+            bool value = false;
+            for (std::size_t c = 0; c < r.cols && !value; ++c) value = !r.at(i - 1, c).isEmpty();
+            if (value) {
                 tableEnd = i;
                 break;
             }

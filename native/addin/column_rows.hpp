@@ -50,7 +50,7 @@ struct ErrorAt {
 //  - a row the include argument leaves out (0, FALSE or blank in that row, as the functions
 //    read include), for a function that has one and is given a column of it;
 //  - for a function without an include argument (an index series, PERIODOF ...), a row below
-//    the last row holding a number in any of its Column arguments: a #N/A under the series is
+//    the last row holding a value (number or text) in any of its Column arguments: a #N/A under the series is
 //    outside it.
 // Errors anywhere else are refused, so an answer never passes over a sale in silence.
 std::optional<std::size_t> refusedError(const FunctionSpec& f, const std::vector<Arg>& values,

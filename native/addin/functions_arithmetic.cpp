@@ -149,7 +149,7 @@ std::vector<FunctionSpec> arithmeticFunctions() {
          {},
          {{"change", "0.00"}},
          "A column aligned with index; the first lag rows and rows where either value is "
-         "missing stay blank.",
+         "missing stay blank. An index value of 0 or less is refused, naming its row.",
          "=INDEXCHANGE(F2:F61;12)",
          change},
         {"priceAdjust",

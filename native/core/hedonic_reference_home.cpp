@@ -138,6 +138,13 @@ RefHomeResult referenceHomeValue(const HedonicInput& input, const HomeInput& hom
         const double v = F.covD(t, t) + x.dot(F.Vb() * x) + 2 * x.dot(F.covDB(t));
         const double factor = retransformFactor(F, o.retransform);
         tb.index[t] = std::exp(m) * (std::isfinite(factor) ? factor : 1.0);
+        // A home far outside the sales (an area of 1e308) has a value beyond the range of
+        // numbers: say so rather than show a blank (issue 10).
+        if (!std::isfinite(tb.index[t]) || (tb.index[t] == 0 && std::isfinite(m)))
+            throw InputError(fmt::format(
+                "the home's value in {} is beyond the range of numbers (its log value is {:.4g}): "
+                "check the home's characteristics against the sales'",
+                D.axis.label(t), m));
         const double q = F.quantile(o.level);
         if (std::isfinite(v) && std::isfinite(q) && std::isfinite(factor)) {
             const double h = q * std::sqrt(std::max(v, 0.0));

@@ -82,6 +82,11 @@ SeriesResult indexChange(const std::vector<double>& index, const ChangeOptions& 
     SeriesResult r;
     analytics::countValues(index, true, r.diag);
     r.values.assign(index.size(), kNoValue);
+    // A change is a ratio of two index values: an index value of 0 or less has none, and a
+    // blank in its place would pass in silence (issue 10).
+    for (std::size_t t = 0; t < index.size(); ++t)
+        if (hasValue(index[t]) && index[t] <= 0)
+            throw InputError(fmt::format("changes need index values above 0: row {} holds {}", t + 1, index[t]));
     const auto lag = static_cast<std::size_t>(o.lag);
     for (std::size_t t = lag; t < index.size(); ++t) {
         const double a = index[t - lag], b = index[t];

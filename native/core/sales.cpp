@@ -91,7 +91,10 @@ std::vector<double> scaledPrices(const SalesInput& in, const ScreenedSales& s) {
     if (price.empty()) return price;
     const double top = price[hi], bottom = price[lo];
     double scale = stats::rangeScale(top);
-    if (scale == 1.0 && !std::isnormal(bottom)) scale = stats::rangeScale(bottom);
+    // A price below the smallest normal number (1e-308) among ordinary ones is kept as it is
+    // (a median or a mean is not disturbed by it); scaling up is only for a table of tiny prices.
+    if (scale == 1.0 && !std::isnormal(bottom) && std::isfinite(top * stats::rangeScale(bottom)))
+        scale = stats::rangeScale(bottom);
     if (scale == 1.0) return price;
     if (!std::isnormal(bottom * scale) || !std::isfinite(top * scale))
         throw InputError(fmt::format(

@@ -142,13 +142,23 @@ BOOST_AUTO_TEST_CASE(error_cells_below_a_series_are_passed_over) {
     values[0] = numbers(25, 20, 100);
     BOOST_TEST(!refusedError(f, values, {{0, 24, 0}}).has_value());
     BOOST_TEST(refusedError(f, values, {{0, 5, 0}, {0, 24, 0}}).value() == 0u);
-    // INDEXREBASE(periods; index): the table reaches as far as any Column argument's numbers:
+    // INDEXREBASE(periods; index): the table reaches as far as any Column argument holds a value:
     // an error in index row 22 while periods go on to row 25 is inside it.
     const FunctionSpec& g = functionSpec("INDEXREBASE");
     std::vector<Arg> two(g.args.size());
     two[0] = numbers(25, 25, 45000);
     two[1] = numbers(25, 20, 100);
     BOOST_TEST(refusedError(g, two, {{1, 22, 0}}).value() == 0u);
+    // ISSEGMENT(labels; ...): labels are text; an error among them is inside the table.
+    const FunctionSpec& h = functionSpec("ISSEGMENT");
+    std::vector<Arg> labels(h.args.size());
+    Range text;
+    text.rows = 10;
+    text.cols = 1;
+    text.cells.assign(10, Cell::str("North"));
+    text.at(4, 0) = Cell{};
+    labels[0] = text;
+    BOOST_TEST(refusedError(h, labels, {{0, 4, 0}}).value() == 0u);
 }
 
 BOOST_AUTO_TEST_CASE(set_rows_cuts_and_pads) {

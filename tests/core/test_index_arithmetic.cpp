@@ -76,10 +76,14 @@ BOOST_AUTO_TEST_CASE(arithmetic_options_and_diagnostics) {
     ChangeOptions lag0;
     lag0.lag = 0;
     BOOST_CHECK_THROW(lag0.validate(), InputError);
-    const SeriesResult ch = indexChange({100, -5, 110}, ChangeOptions{});
-    BOOST_TEST(ch.diag.droppedFor(DropReason::NonPositiveValue) == 1u);
+    // An index value of 0 or less has no change: refused by row, not left blank in silence
+    // (issue 10: INDEXCHANGE of 100, -5, 110 gave blanks with no word).
+    BOOST_CHECK_EXCEPTION(indexChange({100, -5, 110}, ChangeOptions{}), InputError, [](const InputError& e) {
+        return std::string(e.what()) == "changes need index values above 0: row 2 holds -5";
+    });
+    const SeriesResult ch = indexChange({100, kNoValue, 110}, ChangeOptions{});
     BOOST_TEST(std::isnan(ch.values[1]));
-    BOOST_TEST(std::isnan(ch.values[2]));  // its previous value is not positive
+    BOOST_TEST(std::isnan(ch.values[2]));  // its previous value is missing
 }
 
 BOOST_AUTO_TEST_SUITE_END()
