@@ -75,9 +75,11 @@ std::string methods() {
         for (std::size_t i = 0; i < f.args.size(); ++i)
             o << ", const " << cppType(f.args[i].kind) << " a" << i;
         o << ") override {\n    return dispatch(\"" << f.method
-          << "\", docProperties, [&] {\n        return std::vector<UnoArg>{";
-        for (std::size_t i = 0; i < f.args.size(); ++i) o << (i ? ", " : "") << "toArg(a" << i << ")";
-        o << "};\n    });\n}\n";
+          << "\", docProperties, [&] {\n        std::vector<UnoArg> v;\n        v.reserve("
+          << f.args.size() << ");\n";
+        // One push_back each: an initializer list would copy every converted range.
+        for (std::size_t i = 0; i < f.args.size(); ++i) o << "        v.push_back(toArg(a" << i << "));\n";
+        o << "        return v;\n    });\n}\n";
     }
     return o.str();
 }
