@@ -7,7 +7,7 @@ set -euo pipefail
 build=(cmake make g++ pkg-config libeigen3-dev libfmt-dev libboost-dev libboost-test-dev libicu-dev libnlopt-dev
        "libreoffice-calc-nogui|libreoffice-calc" libreoffice-dev libreoffice-dev-common python3-uno)
 test=(python3-numpy python3-pandas python3-scipy python3-statsmodels r-base-core r-cran-aer locales
-      libopenblas0-pthread)
+      libopenblas0-pthread clang libclang-rt-14-dev)
 demo=(python3-numpy python3-pandas poppler-utils fonts-dejavu-core)
 gui=(libreoffice-calc xvfb imagemagick xdotool python3-numpy python3-pandas)
 
