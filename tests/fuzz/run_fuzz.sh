@@ -4,7 +4,7 @@
 #       configures <build dir>/fuzz with clang, -fsanitize=address,undefined and the coverage
 #       of libFuzzer for every target, and builds the harnesses
 #   run_fuzz.sh run <source dir> <build dir> <harness> [seconds]
-#       runs the harness for a bounded time (LINTEL_FUZZ_SECONDS, default 45) on its kept
+#       runs the harness for a bounded time (LINTEL_FUZZ_SECONDS, default 30) on its kept
 #       corpus tests/fuzz/corpus/<harness> (read only); the inputs this run adds go to
 #       <build dir>/fuzz/corpus/<harness>, emptied first (a corpus grown over many runs would
 #       take minutes to replay before fuzzing starts); then runs every file of
@@ -34,14 +34,14 @@ case "$mode" in
     # pointer-overflow recovers so that tests/fuzz/ubsan.supp can suppress one Eigen case;
     # every other check stops at once.
     flags="-fsanitize=address,undefined,fuzzer-no-link -fno-omit-frame-pointer -fno-sanitize-recover=undefined"
-    flags+=" -fsanitize-recover=pointer-overflow -g -O1 -Wno-sign-conversion"
+    flags+=" -fsanitize-recover=pointer-overflow -gline-tables-only -O1 -Wno-sign-conversion"
     cmake -S "$src" -B "$out" -DCMAKE_BUILD_TYPE=None -DCMAKE_CXX_COMPILER="$cxx" \
           -DLINTEL_FUZZ=ON -DLINTEL_BUILD_TESTS=OFF -DLINTEL_BUILD_ADDIN=ON \
           -DCMAKE_CXX_FLAGS="$flags" >/dev/null
     cmake --build "$out" -j 2 --target lintel_fuzz_estimators lintel_fuzz_addin_call >/dev/null
     ;;
   run)
-    harness=$4 seconds=${5:-${LINTEL_FUZZ_SECONDS:-45}}
+    harness=$4 seconds=${5:-${LINTEL_FUZZ_SECONDS:-30}}
     exe=$out/tests/fuzz/lintel_$harness
     [ -x "$exe" ] || { echo "fuzz: $exe missing (the ctest fuzz_build builds it)" >&2; exit 1; }
     work=$out/corpus/$harness seeds=$src/tests/fuzz/corpus/$harness
