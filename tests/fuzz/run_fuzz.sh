@@ -4,7 +4,7 @@
 #       configures <build dir>/fuzz with clang, -fsanitize=address,undefined and the coverage
 #       of libFuzzer for every target, and builds the harnesses
 #   run_fuzz.sh run <source dir> <build dir> <harness> [seconds]
-#       runs the harness for a bounded time (LINTEL_FUZZ_SECONDS, default 30) on its kept
+#       runs the harness for a bounded time (LINTEL_FUZZ_SECONDS, default 20) on its kept
 #       corpus tests/fuzz/corpus/<harness> (read only); the inputs this run adds go to
 #       <build dir>/fuzz/corpus/<harness>, emptied first (a corpus grown over many runs would
 #       take minutes to replay before fuzzing starts); then runs every file of
@@ -41,7 +41,7 @@ case "$mode" in
     cmake --build "$out" -j 2 --target lintel_fuzz_estimators lintel_fuzz_addin_call >/dev/null
     ;;
   run)
-    harness=$4 seconds=${5:-${LINTEL_FUZZ_SECONDS:-30}}
+    harness=$4 seconds=${5:-${LINTEL_FUZZ_SECONDS:-20}}
     exe=$out/tests/fuzz/lintel_$harness
     [ -x "$exe" ] || { echo "fuzz: $exe missing (the ctest fuzz_build builds it)" >&2; exit 1; }
     work=$out/corpus/$harness seeds=$src/tests/fuzz/corpus/$harness
