@@ -26,6 +26,7 @@
 #include "backtest.hpp"
 #include "backtest_methods.hpp"
 #include "call.hpp"
+#include "csv_line.hpp"
 #include "diagnostics.hpp"
 #include "function_table.hpp"
 #include "hedonic.hpp"
@@ -83,18 +84,7 @@ std::string trim(const std::string& s) {
     return s.substr(a, s.find_last_not_of(" \t\r") - a + 1);
 }
 
-std::vector<std::string> splitCsvLine(const std::string& line) {
-    std::vector<std::string> out;
-    std::string cur;
-    bool quoted = false;
-    for (char c : line) {
-        if (c == '"') quoted = !quoted;
-        else if (c == ',' && !quoted) { out.push_back(cur); cur.clear(); }
-        else if (c != '\r') cur += c;
-    }
-    out.push_back(cur);
-    return out;
-}
+using lintel::testcsv::splitCsvLine;
 
 Sheet parse(const std::uint8_t* data, std::size_t size) {
     Sheet s;

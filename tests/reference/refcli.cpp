@@ -8,6 +8,7 @@
 #include <limits>
 #include <sstream>
 
+#include "csv_line.hpp"
 #include "diagnostics.hpp"
 
 namespace refcli {
@@ -18,18 +19,7 @@ std::map<std::string, Command>& registry() {
     return r;
 }
 
-std::vector<std::string> splitCsvLine(const std::string& line) {
-    std::vector<std::string> out;
-    std::string cur;
-    bool quoted = false;
-    for (char c : line) {
-        if (c == '"') quoted = !quoted;
-        else if (c == ',' && !quoted) { out.push_back(cur); cur.clear(); }
-        else if (c != '\r') cur += c;
-    }
-    out.push_back(cur);
-    return out;
-}
+using lintel::testcsv::splitCsvLine;
 
 Table readCsv(const std::string& path) {
     std::ifstream f(path);
