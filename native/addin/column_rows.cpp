@@ -18,18 +18,31 @@ void setRows(Range& r, std::size_t n) {
     r.rows = n;
 }
 
-namespace {
-bool textBelow(const Range& r, std::size_t n) {
-    for (std::size_t i = n; i < r.rows; ++i)
+ValueShape shapeOf(const Range& r) {
+    ValueShape s;
+    s.rows = r.rows;
+    s.usedRows = usedRows(r);
+    for (std::size_t i = s.usedRows; i > 0 && s.textRows == 0; --i)
         for (std::size_t c = 0; c < r.cols; ++c)
-            if (r.at(i, c).isText()) return true;
-    return false;
+            if (r.at(i - 1, c).isText()) {
+                s.textRows = i;
+                break;
+            }
+    return s;
 }
-}  // namespace
 
 std::vector<std::size_t> plannedRows(const std::vector<ArgKind>& kinds,
                                      const std::vector<std::optional<ColumnExtent>>& columns,
                                      const std::vector<Arg>& values) {
+    std::vector<std::optional<ValueShape>> shapes(values.size());
+    for (std::size_t i = 0; i < values.size(); ++i)
+        if (values[i] && (i >= kinds.size() || kinds[i] != ArgKind::Column)) shapes[i] = shapeOf(*values[i]);
+    return plannedRowsByShape(kinds, columns, shapes);
+}
+
+std::vector<std::size_t> plannedRowsByShape(const std::vector<ArgKind>& kinds,
+                                     const std::vector<std::optional<ColumnExtent>>& columns,
+                                     const std::vector<std::optional<ValueShape>>& values) {
     const std::size_t n = kinds.size();
     std::vector<std::size_t> rows(n, 0);
     for (std::size_t i = 0; i < n; ++i) {
@@ -52,12 +65,12 @@ std::vector<std::size_t> plannedRows(const std::vector<ArgKind>& kinds,
         for (std::size_t i = 0; i < n; ++i) {
             if (!member(i)) continue;
             if (kinds[i] == ArgKind::Column) keep = std::max(keep, columns[i]->usedRows);
-            else if (kinds[i] == ArgKind::Range) keep = std::max(keep, usedRows(*values[i]));
+            else if (kinds[i] == ArgKind::Range) keep = std::max(keep, values[i]->usedRows);
         }
         keep = std::min(keep, h);
         for (std::size_t i = 0; i < n; ++i) {
             if (!member(i)) continue;
-            if (kinds[i] == ArgKind::Optional && textBelow(*values[i], keep)) continue;
+            if (kinds[i] == ArgKind::Optional && values[i]->textRows > keep) continue;
             rows[i] = keep;
         }
     }

@@ -31,9 +31,23 @@ struct ColumnExtent {
     bool toSheetEnd = false;         // reaches the last row of its sheet (a whole column)
 };
 
+// What the plan needs of an argument given as values (a Range or Optional argument): its
+// rows, its rows down to the last one with a non-empty cell, and down to the last one with
+// text (0: none). The UNO layer measures Calc's array before converting it, so that a
+// whole-column expression of a million rows is converted only down to the rows kept.
+struct ValueShape {
+    std::size_t rows = 0, usedRows = 0, textRows = 0;
+};
+ValueShape shapeOf(const Range& r);
+
 // The number of rows each argument of a call keeps. kinds: the arguments' kinds; columns: the
-// extent of each Column argument (unset for the others); values: the other arguments as
-// converted (ignored for Column arguments). A missing argument keeps 0 rows.
+// extent of each Column argument (unset for the others); values: the shape of the other
+// arguments (ignored for Column arguments; unset when missing). A missing argument keeps 0
+// rows.
+std::vector<std::size_t> plannedRowsByShape(const std::vector<ArgKind>& kinds,
+                                     const std::vector<std::optional<ColumnExtent>>& columns,
+                                     const std::vector<std::optional<ValueShape>>& values);
+// The same with the other arguments as converted.
 std::vector<std::size_t> plannedRows(const std::vector<ArgKind>& kinds,
                                      const std::vector<std::optional<ColumnExtent>>& columns,
                                      const std::vector<Arg>& values);

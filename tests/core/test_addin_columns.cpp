@@ -89,6 +89,27 @@ BOOST_AUTO_TEST_CASE(an_optional_range_with_text_below_the_data_keeps_its_rows) 
     BOOST_TEST(rows[1] == kSheetRows);
 }
 
+BOOST_AUTO_TEST_CASE(a_value_shape_says_where_the_values_and_the_text_end) {
+    // The plan works on shapes so that the UNO layer converts a whole-column expression only
+    // down to the rows kept; shapeOf must see what the converted range holds.
+    Range r = numbers(10, 6);
+    r.cells[3] = Cell::str("minsales");
+    ValueShape s = shapeOf(r);
+    BOOST_TEST(s.rows == 10u);
+    BOOST_TEST(s.usedRows == 6u);
+    BOOST_TEST(s.textRows == 4u);
+    r.cells[3] = Cell::num(2);
+    s = shapeOf(r);
+    BOOST_TEST(s.textRows == 0u);
+    BOOST_TEST(shapeOf(numbers(7, 0)).usedRows == 0u);
+    // A million-row mask as a shape: cut with the data; with text below the data, kept.
+    const std::vector<ArgKind> kinds = {ArgKind::Column, ArgKind::Optional};
+    const std::vector<std::optional<ColumnExtent>> cols = {wholeColumn(1200), std::nullopt};
+    BOOST_TEST(plannedRowsByShape(kinds, cols, {std::nullopt, ValueShape{kSheetRows, kSheetRows, 0}})[1] == 1200u);
+    BOOST_TEST(plannedRowsByShape(kinds, cols, {std::nullopt, ValueShape{kSheetRows, 2001, 2001}})[1] == kSheetRows);
+    BOOST_TEST(plannedRowsByShape(kinds, cols, {std::nullopt, ValueShape{kSheetRows, kSheetRows, 1200}})[1] == 1200u);
+}
+
 BOOST_AUTO_TEST_CASE(value_or_column_arguments_extend_the_group) {
     // PRICEADJUST(B:B; A:A; DATE(...); H:H; I:I): prices and sale dates (Range arguments, passed
     // as values) reach row 1000, the index table (Column arguments) row 61: every column keeps

@@ -391,8 +391,7 @@ report::SheetData readSalesTable(const Reference<css::sheet::XSpreadsheetDocumen
         range = sheet->getCellRangeByPosition(a.StartColumn, a.StartRow, a.EndColumn, a.EndRow);
     }
     Reference<css::sheet::XCellRangeData> data(range, UNO_QUERY_THROW);
-    Arg cells = toArg(data->getDataArray());
-    if (!cells) throw InputError("the sales table could not be read");
+    Range cells = cellsOf(data->getDataArray());
     report::SheetData d;
     d.dateOffset = documentDateOffset(doc);
     const CallContext facts = documentContext(Reference<css::beans::XPropertySet>(doc, UNO_QUERY));
@@ -401,7 +400,7 @@ report::SheetData readSalesTable(const Reference<css::sheet::XSpreadsheetDocumen
     d.sheet = sheetName;
     d.firstRow = a.StartRow;
     d.firstCol = a.StartColumn;
-    d.cells = std::move(*cells);
+    d.cells = std::move(cells);
     usedRange = sheetName + "." + report::columnName(a.StartColumn) + std::to_string(a.StartRow + 1) + ":" +
                 report::columnName(a.EndColumn) + std::to_string(a.EndRow + 1);
     return d;

@@ -57,16 +57,63 @@ Cell toCell(const css::uno::Any& a) {
     }
 }
 
-Range toRange(const css::uno::Sequence<css::uno::Sequence<css::uno::Any>>& v) {
-    Range r;
-    r.rows = static_cast<std::size_t>(v.getLength());
-    for (const auto& row : v) r.cols = std::max(r.cols, static_cast<std::size_t>(row.getLength()));
-    r.cells.resize(r.rows * r.cols);
-    for (std::size_t i = 0; i < r.rows; ++i) {
-        const auto& row = v[static_cast<sal_Int32>(i)];
-        for (sal_Int32 j = 0; j < row.getLength(); ++j) r.cells[i * r.cols + j] = toCell(row[j]);
+// Whether a value converts to an empty cell (toCell), told from its type without converting it.
+bool emptyValue(const css::uno::Any& a) {
+    switch (a.getValueTypeClass()) {
+        case css::uno::TypeClass_VOID: return true;
+        case css::uno::TypeClass_DOUBLE:
+        case css::uno::TypeClass_BOOLEAN: return false;
+        case css::uno::TypeClass_STRING: return static_cast<const OUString*>(a.getValue())->isEmpty();
+        default: {
+            double d = 0;
+            return !(a >>= d);
+        }
     }
-    r.scalar = r.rows == 1 && r.cols == 1;
+}
+
+bool textValue(const css::uno::Any& a) {
+    return a.getValueTypeClass() == css::uno::TypeClass_STRING && !emptyValue(a);
+}
+
+std::size_t widthOf(const AnyRows& v) {
+    std::size_t cols = 0;
+    for (const auto& row : v) cols = std::max(cols, static_cast<std::size_t>(row.getLength()));
+    return cols;
+}
+
+// The plan's view of an array (column_rows.hpp), from the values' types alone.
+ValueShape shapeOf(const AnyRows& v) {
+    ValueShape s;
+    s.rows = static_cast<std::size_t>(v.getLength());
+    auto rowHas = [&](std::size_t i, bool (*test)(const css::uno::Any&)) {
+        for (const auto& a : v[static_cast<sal_Int32>(i)])
+            if (test(a)) return true;
+        return false;
+    };
+    for (std::size_t i = s.rows; i > 0; --i)
+        if (rowHas(i - 1, [](const css::uno::Any& a) { return !emptyValue(a); })) {
+            s.usedRows = i;
+            break;
+        }
+    for (std::size_t i = s.usedRows; i > 0; --i)
+        if (rowHas(i - 1, textValue)) {
+            s.textRows = i;
+            break;
+        }
+    return s;
+}
+
+// The first `rows` rows of an array as cells, with empty rows added below when it has fewer.
+Range toRange(const AnyRows& v, std::size_t rows) {
+    Range r;
+    r.rows = rows;
+    r.cols = widthOf(v);
+    r.cells.resize(r.rows * r.cols);
+    const std::size_t have = std::min(rows, static_cast<std::size_t>(v.getLength()));
+    for (std::size_t i = 0; i < have; ++i) {
+        const auto& row = v[static_cast<sal_Int32>(i)];
+        for (sal_Int32 j = 0; j < row.getLength(); ++j) r.cells[i * r.cols + static_cast<std::size_t>(j)] = toCell(row[j]);
+    }
     return r;
 }
 
@@ -179,21 +226,23 @@ Range readColumn(const ColumnSource& s, std::size_t rows, std::size_t arg, std::
 
 }  // namespace
 
-Arg toArg(const css::uno::Sequence<css::uno::Sequence<css::uno::Any>>& v) { return toRange(v); }
+Range cellsOf(const AnyRows& v) {
+    Range r = toRange(v, static_cast<std::size_t>(v.getLength()));
+    r.scalar = r.rows == 1 && r.cols == 1;
+    return r;
+}
 
-Arg toArg(const css::uno::Any& v) {
-    css::uno::Sequence<css::uno::Sequence<css::uno::Any>> seq;
-    if (v >>= seq) {
-        Range r = toRange(seq);
-        r.scalar = false;
-        return r;
-    }
-    if (!v.hasValue()) return std::nullopt;
+UnoArg toArg(const AnyRows& v) { return UnoArg(v, true); }
+
+UnoArg toArg(const css::uno::Any& v) {
+    AnyRows seq;
+    if (v >>= seq) return UnoArg(std::move(seq), false);
+    if (!v.hasValue()) return UnoArg(std::nullopt);
     Range r;
     r.rows = r.cols = 1;
     r.scalar = true;
     r.cells.push_back(toCell(v));
-    return r;
+    return UnoArg(std::move(r));
 }
 
 UnoArg toArg(const css::uno::Reference<css::table::XCellRange>& v) noexcept { return UnoArg(v); }
@@ -203,6 +252,7 @@ std::vector<Arg> readArguments(const FunctionSpec& f, std::vector<UnoArg> args) 
     std::vector<ArgKind> kinds(n, ArgKind::Optional);
     std::vector<std::optional<ColumnSource>> sources(n);
     std::vector<std::optional<ColumnExtent>> extents(n);
+    std::vector<std::optional<ValueShape>> shapes(n);
     std::vector<Arg> values(n);
     for (std::size_t i = 0; i < n; ++i) {
         if (i < f.args.size()) kinds[i] = f.args[i].kind;
@@ -212,14 +262,22 @@ std::vector<Arg> readArguments(const FunctionSpec& f, std::vector<UnoArg> args) 
             extents[i] = sources[i]->extent;
         } else {
             if (kinds[i] == ArgKind::Column) kinds[i] = ArgKind::Range;  // not passed as a range
+            if (args[i].array) shapes[i] = shapeOf(*args[i].array);
+            else if (args[i].value) shapes[i] = shapeOf(*args[i].value);
             values[i] = std::move(args[i].value);
         }
     }
-    const std::vector<std::size_t> rows = plannedRows(kinds, extents, values);
+    const std::vector<std::size_t> rows = plannedRowsByShape(kinds, extents, shapes);
     std::vector<ErrorAt> errors;
     for (std::size_t i = 0; i < n; ++i) {
         if (sources[i]) {
             values[i] = readColumn(*sources[i], rows[i], i, errors);
+        } else if (args[i].array) {
+            // Only the rows the call keeps are converted.
+            const AnyRows& a = *args[i].array;
+            values[i] = toRange(a, rows[i]);
+            values[i]->scalar = args[i].arrayScalar && a.getLength() == 1 && widthOf(a) == 1;
+            args[i].array.reset();
         } else if (values[i] && values[i]->rows != rows[i]) {
             setRows(*values[i], rows[i]);
         }

@@ -2,6 +2,7 @@
 // Calc passes ranges and how a result must look to be shown as intended.
 #pragma once
 
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -22,23 +23,34 @@ namespace lintel::addin {
 std::string utf8(const OUString& s);
 OUString ustr(const std::string& s);
 
-// A range argument (sequence<sequence<any>>): numbers and booleans arrive as double, empty
-// cells as an empty string, text as string. Throws std::bad_alloc when memory runs out (the
-// caller says so; it is not a missing argument).
-Arg toArg(const com::sun::star::uno::Sequence<com::sun::star::uno::Sequence<com::sun::star::uno::Any>>& v);
-// An optional argument (any): void when omitted or left empty; a number, a string, or a
-// range as sequence<sequence<any>>.
-Arg toArg(const com::sun::star::uno::Any& v);
+// Calc's array of values for a range argument (sequence<sequence<any>>): numbers and booleans
+// arrive as double, empty cells as an empty string (or void), text as string.
+using AnyRows = com::sun::star::uno::Sequence<com::sun::star::uno::Sequence<com::sun::star::uno::Any>>;
 
-// A Column argument (table::XCellRange): Calc passes the range itself; it is read by
-// readArguments, which sees all the arguments of the call.
+// All of an array as the add-in's cells (a 1 x 1 array is a single value). Throws
+// std::bad_alloc when memory runs out (the caller says so; it is not a missing argument).
+Range cellsOf(const AnyRows& v);
+
+// One argument of a call as the generated methods pass it to readArguments: converted
+// already (a single value, or missing), an array of values kept as Calc passed it until the
+// call knows how many of its rows it keeps (a whole-column expression is a million rows), or
+// a Column argument's range (table::XCellRange), which is read only down to its data.
 struct UnoArg {
     Arg value;                                                 // a converted argument
+    std::optional<AnyRows> array;                              // or an array to convert
+    bool arrayScalar = false;                                  // a 1 x 1 array is a single value
     com::sun::star::uno::Reference<com::sun::star::table::XCellRange> range;  // or a range to read
     UnoArg(Arg v) : value(std::move(v)) {}  // NOLINT: the generated calls rely on it
+    UnoArg(AnyRows a, bool scalarWhenOne) : array(std::move(a)), arrayScalar(scalarWhenOne) {}
     explicit UnoArg(com::sun::star::uno::Reference<com::sun::star::table::XCellRange> r)
         : range(std::move(r)) {}
 };
+// A range argument (sequence<sequence<any>>).
+UnoArg toArg(const AnyRows& v);
+// An optional argument (any): void when omitted or left empty; a number, a string, or a
+// range as sequence<sequence<any>>.
+UnoArg toArg(const com::sun::star::uno::Any& v);
+// A Column argument: Calc passes the range itself.
 UnoArg toArg(const com::sun::star::uno::Reference<com::sun::star::table::XCellRange>& v) noexcept;
 
 // The arguments of a call of f as the add-in's cells. A Column argument is read only down to
