@@ -1,15 +1,12 @@
 #!/usr/bin/env bash
-# ctest "sanitized_unit_tests": builds the unit tests with AddressSanitizer and
-# UndefinedBehaviorSanitizer in <build>/sanitize and runs them, with a longer run of the
-# random-argument robustness test (a memory error inside Calc would lose the user's work).
+# ctest "sanitized_unit_tests": runs the unit tests built with AddressSanitizer and
+# UndefinedBehaviorSanitizer (clang, in <build>/fuzz, by the ctest "sanitized_build":
+# tests/fuzz/run_fuzz.sh build), with a longer run of the random-argument robustness test (a
+# memory error inside Calc would lose the user's work).
 #   run_sanitized.sh <source dir> <build dir>
 set -euo pipefail
-src=$1
-out=$2/sanitize
-# -O0 -g1: unoptimised (-O1 ran the tests four times faster but built slower on two busy
-# cores: the whole test command took two minutes longer); -g1 keeps file and line in the
-# sanitizers' stack traces at less cost than full debug info.
-cmake -S "$src" -B "$out" -DCMAKE_BUILD_TYPE=None -DLINTEL_BUILD_ADDIN=ON \
-      -DCMAKE_CXX_FLAGS="-O0 -g1 -fsanitize=address,undefined -fno-omit-frame-pointer -fno-sanitize-recover=undefined" >/dev/null
-cmake --build "$out" -j 2 --target lintel_core_tests >/dev/null
-LINTEL_FUZZ_ROUNDS=${LINTEL_FUZZ_ROUNDS:-2000} "$out/tests/lintel_core_tests"
+exe=$2/fuzz/tests/lintel_core_tests
+[ -x "$exe" ] || { echo "sanitized: $exe missing (the ctest sanitized_build builds it)" >&2; exit 1; }
+export ASAN_OPTIONS=${ASAN_OPTIONS:-detect_leaks=1}
+export UBSAN_OPTIONS=${UBSAN_OPTIONS:-print_stacktrace=1:halt_on_error=1}
+LINTEL_FUZZ_ROUNDS=${LINTEL_FUZZ_ROUNDS:-2000} "$exe"

@@ -71,7 +71,7 @@ PeriodEffectSeries hedonicPeriodEffects(const HedonicInput& input, const Hedonic
     const Index K = D.K();
     VectorXd zmean = VectorXd::Zero(K);
     for (int t = 0; t < T; ++t)
-        if (F.cnt[t] > 0) zmean += static_cast<double>(F.cnt[t]) * F.zbar.row(t).transpose();
+        if (F.cnt[t] > 0 && K > 0) zmean += static_cast<double>(F.cnt[t]) * F.zbar.row(t).transpose();
     zmean /= static_cast<double>(F.n);
     const double shift = zmean.dot(F.b);
     out.axis = D.axis;
@@ -92,7 +92,7 @@ PeriodEffectSeries hedonicPeriodEffects(const HedonicInput& input, const Hedonic
         if (!F.hc) {
             // Independent part s^2 / n_t; shared part through the loadings Zbar_t - zbar.
             e.variance[t] = F.s2 / static_cast<double>(F.cnt[t]);
-            e.loadings.row(t) = F.zbar.row(t) - zmean.transpose();
+            if (K > 0) e.loadings.row(t) = F.zbar.row(t) - zmean.transpose();
         } else {
             // HC1: the marginal variance of d_t + zbar'b.
             const double v = F.covD(t, t) + 2 * zmean.dot(F.covDB(t)) + zmean.dot(Vb * zmean);

@@ -20,7 +20,7 @@ void demeanedRows(const Design& D, const WindowFit& F, std::size_t a, std::size_
     fillRaw(D, a, m, X);
     yt.resize(static_cast<Index>(m));
     forRuns(D, a, m, [&](int p, Index s, Index len) {
-        X.middleRows(s, len).rowwise() -= F.zbar.row(p - F.p0);
+        if (X.cols() > 0) X.middleRows(s, len).rowwise() -= F.zbar.row(p - F.p0);
         yt.segment(s, len) =
             Eigen::Map<const VectorXd>(D.y.data() + a + s, len).array() - F.ybar(p - F.p0);
     });
@@ -55,7 +55,7 @@ GrandMeans periodMeans(const Design& D, WindowFit& F, std::size_t r0, std::size_
         fillRaw(D, a, m, X);
         g.rawSS += X.colwise().squaredNorm().transpose();
         forRuns(D, a, m, [&](int p, Index s, Index len) {
-            F.zbar.row(p - p0) += X.middleRows(s, len).colwise().sum();
+            if (K > 0) F.zbar.row(p - p0) += X.middleRows(s, len).colwise().sum();
             F.ybar(p - p0) += Eigen::Map<const VectorXd>(D.y.data() + a + s, len).sum();
         });
     }
@@ -63,8 +63,10 @@ GrandMeans periodMeans(const Design& D, WindowFit& F, std::size_t r0, std::size_
     for (int i = 0; i < P; ++i) {
         if (!F.cnt[i]) continue;
         g.grand += F.ybar(i);
-        g.zgrand += F.zbar.row(i).transpose();
-        F.zbar.row(i) /= static_cast<double>(F.cnt[i]);
+        if (K > 0) {
+            g.zgrand += F.zbar.row(i).transpose();
+            F.zbar.row(i) /= static_cast<double>(F.cnt[i]);
+        }
         F.ybar(i) /= static_cast<double>(F.cnt[i]);
     }
     g.grand /= static_cast<double>(F.n);
@@ -265,8 +267,9 @@ double addContrast(const Design& D, const WindowFit& F, int e, int s, std::vecto
     const double scale = F.df > 0 ? (F.hc ? std::sqrt(static_cast<double>(F.n) / F.df)
                                           : std::sqrt(F.s2))
                                   : kNoValue;
-    const VectorXd g =
-        F.Ainv * (F.zbar.row(e - F.p0) - F.zbar.row(s - F.p0)).transpose();
+    const VectorXd g = F.zbar.cols() > 0
+                           ? VectorXd(F.Ainv * (F.zbar.row(e - F.p0) - F.zbar.row(s - F.p0)).transpose())
+                           : VectorXd();
     const double ne = static_cast<double>(F.cnt[e - F.p0]);
     const double ns = static_cast<double>(F.cnt[s - F.p0]);
     const std::size_t r0 = D.start[F.p0], r1 = D.start[F.p1 + 1];

@@ -100,18 +100,23 @@ struct WindowFit {
 
     bool has(int p) const { return p >= p0 && p <= p1 && cnt[p - p0] > 0; }
     double d(int p) const {
-        return has(p) ? ybar(p - p0) - zbar.row(p - p0).dot(b) : kNoValue;
+        // K = 0 (every characteristic term dropped): Eigen would form a row of a matrix
+        // without columns from its null data pointer, so no row is taken.
+        return has(p) ? ybar(p - p0) - (zbar.cols() > 0 ? zbar.row(p - p0).dot(b) : 0.0) : kNoValue;
     }
     double covD(int t, int s) const {
         const int i = t - p0, j = s - p0;
         if (!hc) {
-            double v = zbar.row(i).dot(Az.row(j));
+            double v = zbar.cols() > 0 ? zbar.row(i).dot(Az.row(j)) : 0.0;
             if (i == j) v += 1.0 / static_cast<double>(cnt[i]);
             return s2 * v;
         }
         const double ni = static_cast<double>(cnt[i]), nj = static_cast<double>(cnt[j]);
-        double v = zbar.row(i).dot(Vm * zbar.row(j).transpose());
-        v -= Q.row(i).dot(zbar.row(j)) / ni + Q.row(j).dot(zbar.row(i)) / nj;
+        double v = 0.0;
+        if (zbar.cols() > 0) {
+            v = zbar.row(i).dot(Vm * zbar.row(j).transpose());
+            v -= Q.row(i).dot(zbar.row(j)) / ni + Q.row(j).dot(zbar.row(i)) / nj;
+        }
         if (i == j) v += S(i) / (ni * ni);
         return hcScale * v;
     }
@@ -122,6 +127,7 @@ struct WindowFit {
     }
     VectorXd covDB(int t) const {
         const int i = t - p0;
+        if (zbar.cols() == 0) return VectorXd();
         if (!hc) return -s2 * Az.row(i).transpose();
         return hcScale * (Q.row(i).transpose() / static_cast<double>(cnt[i]) -
                           Vm * zbar.row(i).transpose());

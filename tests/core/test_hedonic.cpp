@@ -224,6 +224,47 @@ BOOST_AUTO_TEST_CASE(every_term_aliased_still_gives_an_index) {
     BOOST_TEST(r.table.index[2] == 100 * std::exp(0.0), boost::test_tools::tolerance(1e-12));
 }
 
+BOOST_AUTO_TEST_CASE(a_single_level_text_column_leaves_no_term_at_all) {
+    // A text column of one level gives no term (K = 0, not a term dropped later): the fit is
+    // ln p = d_t, every matrix of the characteristics has no column. The index is the ratio of
+    // geometric means; classical bands: var(d_1 - d_0) = s^2 (1/2 + 1/2), s^2 = RSS / (6 - 3)
+    // = (0.02 + 0.02 + 0) / 3, with the Student t quantile t(0.975; 3) = 3.182446305284263
+    // (from memory; scipy.stats.t.ppf(0.975, 3)). Eigen once formed rows of those empty
+    // matrices from a null pointer (UBSan pointer-overflow, found by tests/fuzz).
+    HedonicInput in;
+    CharacteristicColumn c{"kind", {}, {}};
+    const double lp[3][2] = {{10.0, 10.2}, {10.3, 10.5}, {10.1, 10.1}};
+    for (int t = 0; t < 3; ++t)
+        for (int i = 0; i < 2; ++i) {
+            in.sales.date.push_back(serialFromCivil({2023, t + 1, 5}));
+            in.sales.price.push_back(std::exp(lp[t][i]));
+            c.text.push_back("house");
+        }
+    in.characteristics = {c};
+    const IndexResult r = hedonicIndex(in, HedonicOptions{});
+    BOOST_TEST(r.table.index[1] == 100 * std::exp(0.3), boost::test_tools::tolerance(1e-12));
+    BOOST_TEST(r.table.index[2] == 100 * std::exp(0.0), boost::test_tools::tolerance(1e-12));
+    const double half = 3.182446305284263 * std::sqrt(0.04 / 3);
+    BOOST_TEST(r.table.lower[1] == 100 * std::exp(0.3 - half), boost::test_tools::tolerance(1e-9));
+    BOOST_TEST(r.table.upper[1] == 100 * std::exp(0.3 + half), boost::test_tools::tolerance(1e-9));
+    const HedonicFit f = hedonicFit(in, HedonicOptions{});
+    BOOST_TEST(hasDropped(f, "kind", "single level"));
+    BOOST_TEST(f.droppedTerms.size() == 1u);
+    // HC1, rolling windows and the smoothed index run through the same empty matrices.
+    HedonicOptions hc;
+    hc.se = HedonicStdErr::HC1;
+    const IndexResult h = hedonicIndex(in, hc);
+    BOOST_TEST(h.table.index[1] == 100 * std::exp(0.3), boost::test_tools::tolerance(1e-12));
+    HedonicOptions rolling;
+    rolling.window = 2;
+    const IndexResult w = hedonicIndex(in, rolling);
+    BOOST_TEST(w.table.index[2] == 100 * std::exp(0.0), boost::test_tools::tolerance(1e-12));
+    HedonicOptions smooth;
+    smooth.smooth = SmoothKind::Level;
+    const IndexResult sm = hedonicIndex(in, smooth);
+    for (int t = 0; t < 3; ++t) BOOST_TEST(std::isfinite(sm.table.index[t]));
+}
+
 BOOST_AUTO_TEST_CASE(empty_periods_have_no_value_and_the_rest_is_estimated) {
     const Market m = market(10, 30, 0.0, {3, 4});
     const IndexResult r = hedonicIndex(m.in, logSize());
