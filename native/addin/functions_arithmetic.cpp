@@ -104,7 +104,17 @@ OutTable adjust(const Call& call) {
             out.num(adjustPrice(s.series, p.number, cellDate(sale.at(i), ctx),
                                 cellDate(target.at(i), ctx)).price);
         } catch (const InputError& e) {
-            out.text(std::string("Lintel: ") + e.what());
+            // Calc hands a reference to one empty cell over as the number 0 (a blank in a
+            // column stays blank): the message about that argument says so.
+            std::string m = e.what();
+            for (const Broadcast* b : {&price, &sale, &target}) {
+                const Cell& c = b->at(i);
+                if (b->range->scalar && c.isNumber() && c.number == 0 && m.rfind(b->name, 0) == 0) {
+                    m += " (an empty cell reads as 0)";
+                    break;
+                }
+            }
+            out.text("Lintel: " + m);
         }
     }
     return out;
@@ -162,8 +172,8 @@ std::vector<FunctionSpec> arithmeticFunctions() {
           periods, index},
          {},
          {{"adjusted price", "#,##0"}},
-         "One value, or a column when any input is a column. A date outside the index or on a "
-         "period without a value gives a message in that cell.",
+         "One value, or a column when any input is a column. A price of 0 or less, or a date "
+         "outside the index or on a period without a value, gives a message in that cell.",
          "=PRICEADJUST(B2;A2;DATE(2024;6;30);E$2:E$61;F$2:F$61)",
          adjust},
     };

@@ -115,6 +115,7 @@ SeriesResult indexChange(const std::vector<double>& index, const ChangeOptions& 
 PriceAdjustment adjustPrice(const IndexSeries& s, double price, double saleDate,
                             double targetDate) {
     if (!std::isfinite(price)) throw InputError("price is not a number");
+    if (!(price > 0)) throw InputError(fmt::format("price must be above 0, got {}", price));
     const auto lookup = [&](double date, const char* what) {
         if (!isUsableSerial(date)) throw InputError(fmt::format("{} is not a date", what));
         const int r = s.rowOf(date);

@@ -354,7 +354,7 @@ _whole_tried = set()
 # Calc hands a reference to an empty cell to an optional value argument as the number 0; the
 # messages refusing that 0 say so (docs/errors.md).
 EMPTY_CELL_HINT = " (an empty cell reads as 0)"
-EMPTY_CELL_HINTED = {"freq", "kind", "lag", "base"}
+EMPTY_CELL_HINTED = {"freq", "kind", "lag", "base", "price", "saledate", "targetdate"}
 
 
 def short_if_message(cell):

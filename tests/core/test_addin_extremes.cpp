@@ -94,6 +94,28 @@ BOOST_AUTO_TEST_CASE(priceadjust_of_1e308) {
     BOOST_TEST(num(t.rows[0][0]) == 5e-309, tt::tolerance(1e-12));
 }
 
+// A price of 0 or less is no sale price: refused, not adjusted to 0. Calc hands a reference
+// to one empty cell over as the number 0 (backlog: "a blank cell reference reads as 0 in
+// PRICEADJUST's price"), so a single 0 says so; a 0 in a column of prices (where a blank stays
+// blank) is a typed 0.
+BOOST_AUTO_TEST_CASE(priceadjust_refuses_a_price_of_0_or_less) {
+    const Arg periods = numbers({serial(2024, 1, 1), serial(2024, 2, 1)});
+    const Arg index = numbers({100, 105});
+    const Arg jan = number(serial(2024, 1, 15)), feb = number(serial(2024, 2, 15));
+    OutTable t = call("PRICEADJUST", {number(0), jan, feb, periods, index});
+    BOOST_TEST(txt(t.rows[0][0]) == "Lintel: price must be above 0, got 0 (an empty cell reads as 0)");
+    t = call("PRICEADJUST", {number(-5), jan, feb, periods, index});
+    BOOST_TEST(txt(t.rows[0][0]) == "Lintel: price must be above 0, got -5");
+    t = call("PRICEADJUST", {numbers({200000, 0}), jan, feb, periods, index});
+    BOOST_TEST(num(t.rows[0][0]) == 210000.0, tt::tolerance(1e-12));
+    BOOST_TEST(txt(t.rows[1][0]) == "Lintel: price must be above 0, got 0");
+    // A sale date from an empty cell: 1899-12-30, outside the index, with the hint.
+    t = call("PRICEADJUST", {number(200000), number(0), feb, periods, index});
+    BOOST_TEST(txt(t.rows[0][0]) ==
+               "Lintel: saledate 1899-12-30 lies outside the index (2024-01-01 .. 2024-02-01) "
+               "(an empty cell reads as 0)");
+}
+
 // Issue 10: "INDEXSEASONAL on a negative index says 'too many missing values'."
 BOOST_AUTO_TEST_CASE(indexseasonal_names_the_negative_value) {
     std::vector<double> v(24, 100.0);
