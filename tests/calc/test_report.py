@@ -348,8 +348,16 @@ class ReportTest(unittest.TestCase):
             cursor.gotoEndOfUsedArea(False)
             a = cursor.RangeAddress
             rng = sheet.getCellRangeByPosition(0, 0, a.EndColumn, a.EndRow)
-            formats = [[rng.getCellByPosition(c, r).NumberFormat for c in range(a.EndColumn + 1)]
-                       for r in range(a.EndRow + 1)]
+            # Each cell's number format, from the parts of the range that share one format
+            # (a few calls instead of two per cell).
+            formats = [[None] * (a.EndColumn + 1) for _ in range(a.EndRow + 1)]
+            parts = rng.getCellFormatRanges()
+            for k in range(parts.getCount()):
+                part = parts.getByIndex(k)
+                p, nf = part.RangeAddress, part.NumberFormat
+                for r in range(p.StartRow, p.EndRow + 1):
+                    for c in range(p.StartColumn, p.EndColumn + 1):
+                        formats[r][c] = nf
             out[name] = (rng.getFormulaArray(), formats)
         return out
 
