@@ -72,6 +72,20 @@ Market market(int months, int perMonth, double sigma, const std::vector<int>& em
     return m;
 }
 
+// Two sales in each of 2023-01 .. 2023-03 with ln prices {10.0, 10.2}, {10.3, 10.5},
+// {10.1, 10.1}, and one characteristic column c of 6 rows.
+HedonicInput twoSalesAMonth(const CharacteristicColumn& c) {
+    HedonicInput in;
+    const double lp[3][2] = {{10.0, 10.2}, {10.3, 10.5}, {10.1, 10.1}};
+    for (int t = 0; t < 3; ++t)
+        for (int i = 0; i < 2; ++i) {
+            in.sales.date.push_back(serialFromCivil({2023, t + 1, 5}));
+            in.sales.price.push_back(std::exp(lp[t][i]));
+        }
+    in.characteristics = {c};
+    return in;
+}
+
 HedonicOptions logSize() {
     HedonicOptions o;
     o.logColumns = {1};
@@ -209,16 +223,9 @@ BOOST_AUTO_TEST_CASE(aliased_terms_are_dropped_and_named) {
 BOOST_AUTO_TEST_CASE(every_term_aliased_still_gives_an_index) {
     // Only constant characteristics: the model is ln p = d_t, the index the ratio of
     // geometric means (Handbook 2013, ch. 5 with no characteristics).
-    HedonicInput in;
     CharacteristicColumn c{"c", {}, {}};
-    const double lp[3][2] = {{10.0, 10.2}, {10.3, 10.5}, {10.1, 10.1}};
-    for (int t = 0; t < 3; ++t)
-        for (int i = 0; i < 2; ++i) {
-            in.sales.date.push_back(serialFromCivil({2023, t + 1, 5}));
-            in.sales.price.push_back(std::exp(lp[t][i]));
-            c.numeric.push_back(1.0);
-        }
-    in.characteristics = {c};
+    c.numeric.assign(6, 1.0);
+    const HedonicInput in = twoSalesAMonth(c);
     const IndexResult r = hedonicIndex(in, HedonicOptions{});
     BOOST_TEST(r.table.index[1] == 100 * std::exp(0.3), boost::test_tools::tolerance(1e-12));
     BOOST_TEST(r.table.index[2] == 100 * std::exp(0.0), boost::test_tools::tolerance(1e-12));
@@ -231,16 +238,9 @@ BOOST_AUTO_TEST_CASE(a_single_level_text_column_leaves_no_term_at_all) {
     // = (0.02 + 0.02 + 0) / 3, with the Student t quantile t(0.975; 3) = 3.182446305284263
     // (from memory; scipy.stats.t.ppf(0.975, 3)). Eigen once formed rows of those empty
     // matrices from a null pointer (UBSan pointer-overflow, found by tests/fuzz).
-    HedonicInput in;
     CharacteristicColumn c{"kind", {}, {}};
-    const double lp[3][2] = {{10.0, 10.2}, {10.3, 10.5}, {10.1, 10.1}};
-    for (int t = 0; t < 3; ++t)
-        for (int i = 0; i < 2; ++i) {
-            in.sales.date.push_back(serialFromCivil({2023, t + 1, 5}));
-            in.sales.price.push_back(std::exp(lp[t][i]));
-            c.text.push_back("house");
-        }
-    in.characteristics = {c};
+    c.text.assign(6, "house");
+    const HedonicInput in = twoSalesAMonth(c);
     const IndexResult r = hedonicIndex(in, HedonicOptions{});
     BOOST_TEST(r.table.index[1] == 100 * std::exp(0.3), boost::test_tools::tolerance(1e-12));
     BOOST_TEST(r.table.index[2] == 100 * std::exp(0.0), boost::test_tools::tolerance(1e-12));
