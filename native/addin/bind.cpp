@@ -21,12 +21,10 @@ std::string shown(const Cell& c) {
     return shortText(c.text);
 }
 
-// Calc hands a reference to an empty cell to an optional argument as the number 0, which the
-// add-in cannot tell from a typed 0: a message refusing a 0 argument says so. (An option's
-// value is text, or a cell of an options range, where an empty cell stays empty.)
+// inputs.hpp emptyCellHint, for an argument (an option's value is text, or a cell of an
+// options range, where an empty cell stays empty).
 std::string emptyCellHint(const Cell& c, const std::string& what) {
-    if (!c.isNumber() || c.number != 0 || what.rfind("option", 0) == 0) return "";
-    return " (an empty cell reads as 0)";
+    return what.rfind("option", 0) == 0 ? "" : emptyCellHint(c);
 }
 
 bool digits(const std::string& s, std::size_t& i) {

@@ -104,16 +104,13 @@ OutTable adjust(const Call& call) {
             out.num(adjustPrice(s.series, p.number, cellDate(sale.at(i), ctx),
                                 cellDate(target.at(i), ctx)).price);
         } catch (const InputError& e) {
-            // Calc hands a reference to one empty cell over as the number 0 (a blank in a
-            // column stays blank): the message about that argument says so.
+            // The message about a single-cell argument holding 0 says an empty cell reads so.
             std::string m = e.what();
-            for (const Broadcast* b : {&price, &sale, &target}) {
-                const Cell& c = b->at(i);
-                if (b->range->scalar && c.isNumber() && c.number == 0 && m.rfind(b->name, 0) == 0) {
-                    m += " (an empty cell reads as 0)";
+            for (const Broadcast* b : {&price, &sale, &target})
+                if (b->range->scalar && m.rfind(b->name, 0) == 0) {
+                    m += emptyCellHint(b->at(i));
                     break;
                 }
-            }
             out.text("Lintel: " + m);
         }
     }

@@ -70,6 +70,10 @@ double cellDate(const Cell& c, const CallContext& ctx) {
 
 double cellNumber(const Cell& c) { return c.isNumber() ? c.number : kNoValue; }
 
+std::string emptyCellHint(const Cell& c) {
+    return c.isNumber() && c.number == 0 ? " (an empty cell reads as 0)" : "";
+}
+
 double cellNumber(const Cell& c, const NumberFormat& numbers) {
     if (c.isNumber()) return c.number;
     if (c.isText()) {

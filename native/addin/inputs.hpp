@@ -40,6 +40,10 @@ double cellNumber(const Cell& c);
 // A cell as a number, text read with the document's separators (number_text.hpp: "350,000",
 // "$350,000", "350.000,00" with a decimal comma); NaN for blank, unreadable or ambiguous text.
 double cellNumber(const Cell& c, const NumberFormat& numbers);
+// Calc hands a reference to one empty cell to a value argument as the number 0, which the
+// add-in cannot tell from a typed 0: " (an empty cell reads as 0)" for a cell holding 0, for
+// the end of a message refusing it; "" otherwise. (In a range a blank stays blank.)
+std::string emptyCellHint(const Cell& c);
 // A cell as an include flag: 1/0, TRUE/FALSE; blank = 0.
 char cellFlag(const Cell& c);
 // A cell as text for categories and ids: text as is, numbers in canonical form ("3", "2.5").

@@ -7,6 +7,7 @@
 #include <fmt/format.h>
 
 #include "diagnostics.hpp"
+#include "inputs.hpp"
 #include "text.hpp"
 #include "text_keys.hpp"
 
@@ -30,9 +31,7 @@ OptionBag OptionBag::parse(const Arg& arg, const FunctionSpec& spec) {
         if (c.isEmpty()) return bag;
         if (!c.isText())
             throw InputError(std::string("options must be text \"key=value; key=value\" or a two-column range") +
-                             (c.isNumber() && c.number == 0
-                                  ? " (an empty cell reads as 0)"
-                                  : ""));
+                             emptyCellHint(c));
         const std::string& text = c.text;
         std::size_t pos = 0;
         while (pos <= text.size()) {

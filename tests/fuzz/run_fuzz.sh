@@ -37,7 +37,7 @@ case "$mode" in
     # Every undefined-behaviour check stops at its first report. -O1 -gline-tables-only: the
     # harnesses need speed; the file and line stay in the stack traces.
     flags="-fsanitize=address,undefined,fuzzer-no-link -fno-omit-frame-pointer -fno-sanitize-recover=undefined"
-    flags+=" -gline-tables-only -O1 -Wno-sign-conversion"
+    flags+=" -gline-tables-only -O1"
     cmake -S "$src" -B "$out" -DCMAKE_BUILD_TYPE=None -DCMAKE_CXX_COMPILER="$cxx" \
           -DLINTEL_FUZZ=ON -DLINTEL_BUILD_TESTS=ON -DLINTEL_BUILD_ADDIN=ON \
           -DCMAKE_CXX_FLAGS="$flags" >/dev/null

@@ -276,7 +276,7 @@ std::vector<Arg> readArguments(const FunctionSpec& f, std::vector<UnoArg> args) 
             // Only the rows the call keeps are converted.
             const AnyRows& a = *args[i].array;
             values[i] = toRange(a, rows[i]);
-            values[i]->scalar = args[i].arrayScalar && a.getLength() == 1 && widthOf(a) == 1;
+            values[i]->scalar = args[i].arrayScalar && a.getLength() == 1 && values[i]->cols == 1;
             args[i].array.reset();
         } else if (values[i] && values[i]->rows != rows[i]) {
             setRows(*values[i], rows[i]);
